@@ -1,0 +1,118 @@
+// The database schema. Change it here, then `npm run db:generate` writes a migration into
+// db/migrations, which the server applies at start-up.
+import { sql } from 'drizzle-orm';
+import { index, integer, pgEnum, pgTable, primaryKey, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
+
+export const memberRoles = ['lead', 'author', 'reviewer', 'reader'] as const;
+export type MemberRole = (typeof memberRoles)[number];
+export const memberRole = pgEnum('member_role', memberRoles);
+
+const createdAt = () => timestamp('created_at', { withTimezone: true }).notNull().defaultNow();
+
+/** A person with an account. E-mail is stored lower-cased; a user who only ever signed in by link has no password. */
+export const users = pgTable('users', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  email: text('email').notNull().unique(),
+  name: text('name').notNull(),
+  passwordHash: text('password_hash'),
+  emailVerified: timestamp('email_verified', { withTimezone: true }),
+  createdAt: createdAt(),
+});
+
+/** One-time sign-in links (the token is stored hashed, as the sign-in library hands it over). */
+export const signInTokens = pgTable(
+  'sign_in_tokens',
+  {
+    identifier: text('identifier').notNull(),
+    tokenHash: text('token_hash').notNull(),
+    expires: timestamp('expires', { withTimezone: true }).notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.identifier, t.tokenHash] })],
+);
+
+export const groups = pgTable('groups', {
+  id: uuid('id').primaryKey().defaultRandom(),
+  name: text('name').notNull(),
+  description: text('description').notNull().default(''),
+  createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+  createdAt: createdAt(),
+});
+
+export const memberships = pgTable(
+  'memberships',
+  {
+    groupId: uuid('group_id').notNull().references(() => groups.id, { onDelete: 'cascade' }),
+    userId: uuid('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+    role: memberRole('role').notNull(),
+    joinedAt: timestamp('joined_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.groupId, t.userId] }), index('memberships_user_idx').on(t.userId)],
+);
+
+/** An invitation by e-mail; the link's token is kept only as a SHA-256 hash. */
+export const invitations = pgTable(
+  'invitations',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    groupId: uuid('group_id').notNull().references(() => groups.id, { onDelete: 'cascade' }),
+    email: text('email').notNull(),
+    role: memberRole('role').notNull(),
+    tokenHash: text('token_hash').notNull(),
+    invitedBy: uuid('invited_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+    expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+    acceptedAt: timestamp('accepted_at', { withTimezone: true }),
+    acceptedBy: uuid('accepted_by').references(() => users.id, { onDelete: 'set null' }),
+    revokedAt: timestamp('revoked_at', { withTimezone: true }),
+  },
+  (t) => [uniqueIndex('invitations_token_idx').on(t.tokenHash), index('invitations_group_idx').on(t.groupId)],
+);
+
+/**
+ * A derivation of a group. The claim counts are written by check runs (live summaries and the
+ * lock); lockedVersionCount is kept by the lock in the same transaction that stores a locked version.
+ * Deleting only marks the row, so nothing written is lost.
+ */
+export const derivations = pgTable(
+  'derivations',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    groupId: uuid('group_id').notNull().references(() => groups.id, { onDelete: 'cascade' }),
+    title: text('title').notNull(),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+    updatedAt: timestamp('updated_at', { withTimezone: true }).notNull().defaultNow(),
+    updatedBy: uuid('updated_by').references(() => users.id, { onDelete: 'set null' }),
+    deletedAt: timestamp('deleted_at', { withTimezone: true }),
+    claimsHolding: integer('claims_holding').notNull().default(0),
+    claimsFailing: integer('claims_failing').notNull().default(0),
+    claimsCheckedAt: timestamp('claims_checked_at', { withTimezone: true }),
+    lockedVersionCount: integer('locked_version_count').notNull().default(0),
+  },
+  (t) => [index('derivations_group_idx').on(t.groupId).where(sql`${t.deletedAt} is null`)],
+);
+
+export const derivationAuthors = pgTable(
+  'derivation_authors',
+  {
+    derivationId: uuid('derivation_id').notNull().references(() => derivations.id, { onDelete: 'cascade' }),
+    userId: uuid('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+    addedAt: timestamp('added_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.derivationId, t.userId] })],
+);
+
+/** Every message the local mail sink received (only used while no SMTP_URL is configured). */
+export const mailMessages = pgTable(
+  'mail_messages',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    receivedAt: timestamp('received_at', { withTimezone: true }).notNull().defaultNow(),
+    sender: text('sender').notNull(),
+    recipients: text('recipients').array().notNull(),
+    subject: text('subject').notNull(),
+    text: text('text').notNull(),
+    html: text('html'),
+  },
+  (t) => [index('mail_messages_received_idx').on(t.receivedAt)],
+);

@@ -1,0 +1,32 @@
+// The seam where later parts join the one server process, on the same port:
+// - upgradeRoutes: websocket endpoints by path prefix (e.g. the collaboration socket at /collab/).
+//   Only upgrades under a listed prefix are taken; every other upgrade is left to Next.js.
+// - services: things started after the database and mail are ready and stopped, in reverse
+//   order, on shutdown (e.g. background jobs). Add an entry here; server/index.ts does the rest.
+import type { IncomingMessage, Server } from 'node:http';
+import type { Duplex } from 'node:stream';
+import type { ServerConfig } from './config';
+
+export interface ServerContext {
+  config: ServerConfig;
+  /** The origin the server answers on, e.g. http://127.0.0.1:3000 (or the public origin). */
+  origin: string;
+  httpServer: Server;
+}
+
+export interface UpgradeRoute {
+  /** Path prefix, e.g. '/collab/'. No page or route handler may live under it. */
+  prefix: string;
+  handle(req: IncomingMessage, socket: Duplex, head: Buffer, context: ServerContext): void;
+}
+
+export interface Service {
+  name: string;
+  start(context: ServerContext): Promise<void> | void;
+  /** Finish in-flight work and release resources; called once, before the database closes. */
+  stop(): Promise<void> | void;
+}
+
+export const upgradeRoutes: UpgradeRoute[] = [];
+
+export const services: Service[] = [];
