@@ -1,0 +1,155 @@
+/**
+ * Terms to plain JavaScript functions over a slot vector. The generated source is assembled
+ * only from slot indices, numbers we format ourselves, operators and names from the function
+ * table: no user text reaches it. Where code generation is forbidden (a strict Content Security
+ * Policy), the same term is compiled to nested closures instead.
+ */
+import { FUNCTIONS, helpers } from './functions';
+import type { Term } from './term';
+
+export type ScalarFunction = (slots: ArrayLike<number>) => number;
+export type VectorFunction = (slots: ArrayLike<number>, out: Float64Array) => void;
+
+function literal(v: number): string {
+  if (Number.isNaN(v)) return 'NaN';
+  if (v === Number.POSITIVE_INFINITY) return 'Infinity';
+  if (v === Number.NEGATIVE_INFINITY) return '(-Infinity)';
+  return v < 0 || Object.is(v, -0) ? `(${String(v)})` : String(v);
+}
+
+function slotIndex(name: string, slots: ReadonlyMap<string, number>): number {
+  const index = slots.get(name);
+  if (index === undefined) throw new Error(`internal: symbol "${name}" has no slot`);
+  return index;
+}
+
+function emit(term: Term, slots: ReadonlyMap<string, number>): string {
+  switch (term.t) {
+    case 'num':
+    case 'const':
+      return literal(term.v);
+    case 'sym':
+      return `s[${slotIndex(term.name, slots)}]`;
+    case 'neg':
+      return `(-${emit(term.a, slots)})`;
+    case 'op':
+      if (term.op === '^') return `Math.pow(${emit(term.a, slots)}, ${emit(term.b, slots)})`;
+      return `(${emit(term.a, slots)} ${term.op} ${emit(term.b, slots)})`;
+    case 'call': {
+      const spec = FUNCTIONS[term.f] ?? internalSpec(term.f);
+      const js = term.f === 'log' && term.args.length === 2 ? 'H.logb' : spec.js;
+      return `${js}(${term.args.map((arg) => emit(arg, slots)).join(', ')})`;
+    }
+  }
+}
+
+/** Functions used only by terms flow/ builds itself (the anomalous-part forms). */
+const INTERNAL: Readonly<Record<string, { js: string; impl: (...args: number[]) => number }>> = {
+  powdiff: { js: 'H.powdiff', impl: helpers.powdiff },
+  sindiff: { js: 'H.sindiff', impl: helpers.sindiff },
+  cosdiff: { js: 'H.cosdiff', impl: helpers.cosdiff },
+};
+
+function internalSpec(name: string): { js: string; impl: (...args: number[]) => number } {
+  const spec = INTERNAL[name];
+  if (!spec) throw new Error(`internal: unknown function "${name}"`);
+  return spec;
+}
+
+function implOf(name: string, arity: number): (...args: number[]) => number {
+  if (name === 'log' && arity === 2) return helpers.logb;
+  return FUNCTIONS[name]?.impl ?? internalSpec(name).impl;
+}
+
+// ---------------------------------------------------------------------------------------------
+// Closure compilation (no code generation)
+
+function closure(term: Term, slots: ReadonlyMap<string, number>): ScalarFunction {
+  switch (term.t) {
+    case 'num':
+    case 'const': {
+      const v = term.v;
+      return () => v;
+    }
+    case 'sym': {
+      const i = slotIndex(term.name, slots);
+      return (s) => s[i]!;
+    }
+    case 'neg': {
+      const a = closure(term.a, slots);
+      return (s) => -a(s);
+    }
+    case 'op': {
+      const a = closure(term.a, slots);
+      const b = closure(term.b, slots);
+      switch (term.op) {
+        case '+':
+          return (s) => a(s) + b(s);
+        case '-':
+          return (s) => a(s) - b(s);
+        case '*':
+          return (s) => a(s) * b(s);
+        case '/':
+          return (s) => a(s) / b(s);
+        default:
+          return (s) => Math.pow(a(s), b(s));
+      }
+    }
+    case 'call': {
+      const f = implOf(term.f, term.args.length);
+      const args = term.args.map((arg) => closure(arg, slots));
+      if (args.length === 1) {
+        const [a] = args as [ScalarFunction];
+        return (s) => f(a(s));
+      }
+      if (args.length === 2) {
+        const [a, b] = args as [ScalarFunction, ScalarFunction];
+        return (s) => f(a(s), b(s));
+      }
+      return (s) => f(...args.map((arg) => arg(s)));
+    }
+  }
+}
+
+let codeGenerationAllowed: boolean | undefined;
+
+/** For tests: force closure compilation as if code generation were forbidden. */
+export function setCodeGeneration(allowed: boolean | undefined): void {
+  codeGenerationAllowed = allowed;
+}
+
+function generate<T>(body: string): T | undefined {
+  if (codeGenerationAllowed === false) return undefined;
+  try {
+    const factory = new Function('H', `"use strict";\n${body}`) as (h: typeof helpers) => T;
+    codeGenerationAllowed = true;
+    return factory(helpers);
+  } catch (error) {
+    if (error instanceof EvalError || (error instanceof Error && /unsafe-eval|Content Security/i.test(error.message))) {
+      codeGenerationAllowed = false;
+      return undefined;
+    }
+    throw error;
+  }
+}
+
+function slotMap(slots: readonly string[]): Map<string, number> {
+  return new Map(slots.map((name, index) => [name, index]));
+}
+
+export function compileScalar(term: Term, slots: readonly string[]): ScalarFunction {
+  const map = slotMap(slots);
+  const generated = generate<ScalarFunction>(`return function (s) { return ${emit(term, map)}; };`);
+  return generated ?? closure(term, map);
+}
+
+export function compileVector(terms: readonly Term[], slots: readonly string[]): VectorFunction {
+  const map = slotMap(slots);
+  const lines = terms.map((term, i) => `o[${i}] = ${emit(term, map)};`).join('\n');
+  const generated = generate<VectorFunction>(`return function (s, o) {\n${lines}\n};`);
+  if (generated) return generated;
+  const parts = terms.map((term) => closure(term, map));
+  return (s, o) => {
+    for (let i = 0; i < parts.length; i++) o[i] = parts[i]!(s);
+  };
+}
