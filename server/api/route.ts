@@ -20,31 +20,28 @@ const MAX_BODY_BYTES = 1_000_000;
 type Auth = 'public' | 'optional' | 'user';
 type UserFor<A extends Auth> = A extends 'user' ? SessionUser : SessionUser | null;
 
-/** Which object an action is checked against, found from the URL parameters. */
-export type AccessRule<P> =
-  | { action: Action; group: (params: P) => string }
-  | { action: Action; derivation: (params: P) => string };
-
-type AccessFor<R> = R extends { derivation: unknown } ? DerivationAccess : R extends { group: unknown } ? GroupAccess : null;
-
-export interface RouteSpec<P, Q, B, A extends Auth, R extends AccessRule<P> | undefined> {
+export interface RouteSpec<P, Q, B, A extends Auth> {
   params?: z.ZodType<P>;
   query?: z.ZodType<Q>;
   body?: z.ZodType<B>;
   /** 'user' (the default): 401 without a session. 'optional': the handler sees null. 'public': no lookup. */
   auth?: A;
-  access?: R;
   /** Status of a successful answer (default 200; 201 for creations). */
   status?: number;
 }
 
-export interface RouteInput<P, Q, B, A extends Auth, R> {
+/** A route acting on a group or a derivation: the action is checked against the user's role there. */
+export interface AccessSpec<P, Q, B> extends Omit<RouteSpec<P, Q, B, 'user'>, 'auth' | 'params'> {
+  params: z.ZodType<P>;
+  action: Action;
+}
+
+export interface RouteInput<P, Q, B, U> {
   req: NextRequest;
   params: P;
   query: Q;
   body: B;
-  user: UserFor<A>;
-  access: AccessFor<R>;
+  user: U;
 }
 
 interface RouteContext {
@@ -114,13 +111,13 @@ function isUniqueViolation(error: unknown): boolean {
   return typeof error === 'object' && error !== null && (error as { code?: unknown }).code === '23505';
 }
 
-export function route<
-  P = Record<string, never>,
-  Q = Record<string, never>,
-  B = undefined,
-  A extends Auth = 'user',
-  R extends AccessRule<P> | undefined = undefined,
->(spec: RouteSpec<P, Q, B, A, R>, handler: (input: RouteInput<P, Q, B, A, R>) => Promise<unknown>): RouteHandler {
+type Resolve<P, Access> = (user: SessionUser | null, params: P) => Promise<Access>;
+
+function wrap<P, Q, B, U, Access>(
+  spec: RouteSpec<P, Q, B, Auth>,
+  resolveAccess: Resolve<P, Access>,
+  handler: (input: RouteInput<P, Q, B, U> & { access: Access }) => Promise<unknown>,
+): RouteHandler {
   return async (req, context) => {
     try {
       checkOrigin(req);
@@ -136,15 +133,7 @@ export function route<
         params = parsed.data;
       }
 
-      let access: GroupAccess | DerivationAccess | null = null;
-      if (spec.access) {
-        if (!user) throw new ApiError(401, 'Sign in first.');
-        const rule = spec.access as AccessRule<P>;
-        access =
-          'derivation' in rule
-            ? await authorizeDerivation(user.id, rule.derivation(params), rule.action)
-            : await authorizeGroup(user.id, rule.group(params), rule.action);
-      }
+      const access = await resolveAccess(user, params);
 
       let query = {} as Q;
       if (spec.query) {
@@ -161,14 +150,7 @@ export function route<
         body = parsed.data;
       }
 
-      const result = await handler({
-        req,
-        params,
-        query,
-        body,
-        user: user as UserFor<A>,
-        access: access as AccessFor<R>,
-      });
+      const result = await handler({ req, params, query, body, user: user as U, access });
       if (result instanceof Response) return result;
       if (result === undefined) return new Response(null, { status: 204 });
       return json(spec.status ?? 200, result);
@@ -180,4 +162,43 @@ export function route<
       return errorResponse(500, 'Something went wrong on the server.');
     }
   };
+}
+
+const noAccess = async (): Promise<null> => null;
+
+function signedIn(user: SessionUser | null): SessionUser {
+  if (!user) throw new ApiError(401, 'Sign in first.');
+  return user;
+}
+
+/** A route that needs no group role: public, optionally signed in, or signed in (the default). */
+export function route<P = Record<string, never>, Q = Record<string, never>, B = undefined, A extends Auth = 'user'>(
+  spec: RouteSpec<P, Q, B, A>,
+  handler: (input: RouteInput<P, Q, B, UserFor<A>>) => Promise<unknown>,
+): RouteHandler {
+  return wrap<P, Q, B, UserFor<A>, null>(spec, noAccess, handler);
+}
+
+/** A route on a group (URL parameter groupId): 401 without a session, 404 unknown, 403 refused. */
+export function groupRoute<P extends { groupId: string }, Q = Record<string, never>, B = undefined>(
+  spec: AccessSpec<P, Q, B>,
+  handler: (input: RouteInput<P, Q, B, SessionUser> & { access: GroupAccess }) => Promise<unknown>,
+): RouteHandler {
+  return wrap<P, Q, B, SessionUser, GroupAccess>(
+    spec,
+    (user, params) => authorizeGroup(signedIn(user).id, params.groupId, spec.action),
+    handler,
+  );
+}
+
+/** A route on a derivation (URL parameter derivationId), checked through its group's membership. */
+export function derivationRoute<P extends { derivationId: string }, Q = Record<string, never>, B = undefined>(
+  spec: AccessSpec<P, Q, B>,
+  handler: (input: RouteInput<P, Q, B, SessionUser> & { access: DerivationAccess }) => Promise<unknown>,
+): RouteHandler {
+  return wrap<P, Q, B, SessionUser, DerivationAccess>(
+    spec,
+    (user, params) => authorizeDerivation(signedIn(user).id, params.derivationId, spec.action),
+    handler,
+  );
 }

@@ -1,0 +1,5 @@
+export * from './api';
+export * from './auth';
+export * from './browser';
+export * from './mailbox';
+export * from './server';
