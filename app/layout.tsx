@@ -1,4 +1,5 @@
 import type { Metadata } from 'next';
+import Link from 'next/link';
 import type { ReactNode } from 'react';
 import '@fontsource/eb-garamond/400.css';
 import '@fontsource/eb-garamond/400-italic.css';
@@ -6,16 +7,66 @@ import '@fontsource/eb-garamond/600.css';
 import '@fontsource/jetbrains-mono/400.css';
 import 'katex/dist/katex.min.css';
 import './globals.css';
+import { sinkInUse } from '@/server/mail';
+import { currentUser } from './_lib/session';
+import { Providers } from './providers';
+import { SignOutButton } from './SignOutButton';
 
 export const metadata: Metadata = {
-  title: 'Marginalia',
+  title: { default: 'Marginalia', template: '%s · Marginalia' },
   description: 'Renormalization-group derivations, written together and checked step by step.',
 };
 
-export default function RootLayout({ children }: { children: ReactNode }) {
+export default async function RootLayout({ children }: { children: ReactNode }) {
+  const user = await currentUser();
+  const mailbox = sinkInUse();
   return (
     <html lang="en">
-      <body className="min-h-screen bg-paper font-serif text-ink antialiased">{children}</body>
+      <body className="min-h-screen bg-paper font-serif text-ink antialiased">
+        <a href="#main" className="sr-only focus:not-sr-only focus:absolute focus:left-3 focus:top-3 focus:bg-paper focus:px-2">
+          Skip to content
+        </a>
+        <header className="border-b border-rule">
+          <nav aria-label="Main" className="mx-auto flex max-w-5xl items-baseline gap-6 px-6 py-3">
+            <Link href={user ? '/groups' : '/'} className="text-xl tracking-[0.08em] text-ink [font-variant:small-caps]">
+              Marginalia
+            </Link>
+            {user && (
+              <Link href="/groups" className="text-ink-soft hover:text-ink">
+                Groups
+              </Link>
+            )}
+            <span className="flex-1" />
+            {mailbox && (
+              <Link href="/mailbox" className="text-ink-soft hover:text-ink">
+                Mailbox
+              </Link>
+            )}
+            {user ? (
+              <>
+                <span className="text-ink-soft" aria-label="Signed in as">
+                  {user.name}
+                </span>
+                <SignOutButton />
+              </>
+            ) : (
+              <>
+                <Link href="/signin" className="text-ink-soft hover:text-ink">
+                  Sign in
+                </Link>
+                <Link href="/register" className="text-ink-soft hover:text-ink">
+                  Register
+                </Link>
+              </>
+            )}
+          </nav>
+        </header>
+        <Providers>
+          <main id="main" className="mx-auto max-w-5xl px-6 py-8">
+            {children}
+          </main>
+        </Providers>
+      </body>
     </html>
   );
 }
