@@ -3,6 +3,13 @@
  * only the context. To wire the log-exponent module: import its check here and put it in the
  * 'log-exponent' entry (signature FlowCheck<LogExponentClaim, CompiledModel> from types.ts).
  */
+import { checkCoefficient } from './checks/coefficient';
+import { checkEpsilonCoefficient } from './checks/epsilonCoefficient';
+import { checkIdentity } from './checks/identity';
+import { checkIntegral } from './checks/integral';
+import { checkOrder } from './checks/order';
+import { checkFixedPoint } from './checks/fixedPoint';
+import { checkStability } from './checks/stability';
 import type { CompiledModel } from './model';
 import type { CheckOutcome, ClaimKind, ClaimOfKind, FlowCheck, PlainCheck } from './types';
 
@@ -17,12 +24,12 @@ const unavailable = (what: string) => (): CheckOutcome => ({
 });
 
 export const REGISTRY: { [K in ClaimKind]: RegistryEntry<K> } = {
-  identity: { flow: false, check: unavailable('identity') },
-  order: { flow: false, check: unavailable('order') },
-  coefficient: { flow: false, check: unavailable('coefficient') },
-  integral: { flow: false, check: unavailable('integral') },
-  'fixed-point': { flow: true, check: unavailable('fixed-point') },
-  stability: { flow: true, check: unavailable('stability') },
-  'epsilon-coefficient': { flow: true, check: unavailable('epsilon-coefficient') },
+  identity: { flow: false, check: checkIdentity },
+  order: { flow: false, check: checkOrder },
+  coefficient: { flow: false, check: checkCoefficient },
+  integral: { flow: false, check: checkIntegral },
+  'fixed-point': { flow: true, check: checkFixedPoint },
+  stability: { flow: true, check: checkStability },
+  'epsilon-coefficient': { flow: true, check: checkEpsilonCoefficient },
   'log-exponent': { flow: true, check: unavailable('log-exponent') },
 };

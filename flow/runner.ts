@@ -142,6 +142,7 @@ function runOne(raw: unknown, index: number, state: FlowState, options: CheckOpt
   const deadline = started + limit;
   const random = generator(hashString(`${claim.kind}:${claim.id}`));
   const ctx: CheckContext = {
+    where: `claims[${index}]`,
     checkpoint() {
       if (isCancelled(options)) throw new CheckStopped('cancelled');
       if (clock() > deadline) throw new CheckStopped('time');

@@ -225,7 +225,7 @@ export interface Evidence {
   /** A point where a claimed identity is false. */
   counterexample?: Record<string, number>;
   /** Extracted expansion coefficients with their uncertainties. */
-  coefficients?: Array<{ power: number; value: number; uncertainty: number }>;
+  coefficients?: Array<{ power: number; value: number; uncertainty: number; of?: string }>;
   /** Further named values worth showing (e.g. the analytic leading-order exponent). */
   values?: Record<string, number>;
 }
@@ -297,6 +297,8 @@ export interface CheckOutcome {
 
 /** Handed to every check by the runner. */
 export interface CheckContext {
+  /** The claim's place in the file, for messages: "claims[3]". */
+  where: string;
   /** Throws a stop signal when the time bound is reached or the caller cancelled; call it inside loops. */
   checkpoint(): void;
   /** Milliseconds left before the time bound. */

@@ -1,12 +1,12 @@
 /**
- * High-precision evaluation (mathjs BigNumber, 64 significant digits) of Terms, for identity and
+ * High-precision evaluation (mathjs BigNumber, 40 significant digits) of Terms, for identity and
  * order checks where double precision would hide or invent a difference.
  */
 import { all, create, type BigNumber, type EvalFunction } from 'mathjs';
 import { BoundedCache } from './cache';
 import { type Term, toMathString } from './term';
 
-export const BIG_DIGITS = 64;
+export const BIG_DIGITS = 40;
 const big = create(all, { number: 'BigNumber', precision: BIG_DIGITS });
 const compiled = new BoundedCache<string, EvalFunction>(2000);
 
