@@ -1,7 +1,7 @@
 // The database schema. Change it here, then `npm run db:generate` writes a migration into
 // db/migrations, which the server applies at start-up.
 import { sql } from 'drizzle-orm';
-import { index, integer, pgEnum, pgTable, primaryKey, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
+import { boolean, index, integer, jsonb, pgEnum, pgTable, primaryKey, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
 
 export const memberRoles = ['lead', 'author', 'reviewer', 'reader'] as const;
 export type MemberRole = (typeof memberRoles)[number];
@@ -115,4 +115,57 @@ export const mailMessages = pgTable(
     html: text('html'),
   },
   (t) => [index('mail_messages_received_idx').on(t.receivedAt)],
+);
+
+// ---- datasets: numbers brought in beside the flow (CSV or TSV uploads) -------------------------
+
+export const datasetFormats = ['csv', 'tsv'] as const;
+export type DatasetFormat = (typeof datasetFormats)[number];
+export const datasetFormat = pgEnum('dataset_format', datasetFormats);
+
+/** What a column means for plots and fits: the abscissa, the ordinate, the ordinate's error bar, or kept as is. */
+export const columnRoles = ['x', 'y', 'sigma', 'other'] as const;
+export type ColumnRole = (typeof columnRoles)[number];
+export const columnRole = pgEnum('column_role', columnRoles);
+
+/**
+ * An uploaded dataset of a group: the original file (validated UTF-8 text) and who brought it in.
+ * Its parsed columns live in dataset_columns, written in the same transaction.
+ */
+export const datasets = pgTable(
+  'datasets',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    groupId: uuid('group_id').notNull().references(() => groups.id, { onDelete: 'cascade' }),
+    name: text('name').notNull(),
+    description: text('description').notNull().default(''),
+    fileName: text('file_name').notNull(),
+    format: datasetFormat('format').notNull(),
+    fileText: text('file_text').notNull(),
+    fileBytes: integer('file_bytes').notNull(),
+    fileSha256: text('file_sha256').notNull(),
+    rowCount: integer('row_count').notNull(),
+    uploadedBy: uuid('uploaded_by').references(() => users.id, { onDelete: 'set null' }),
+    uploadedAt: timestamp('uploaded_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [
+    index('datasets_group_idx').on(t.groupId, t.uploadedAt),
+    uniqueIndex('datasets_group_name_idx').on(t.groupId, sql`lower(${t.name})`),
+  ],
+);
+
+/** One parsed column of a dataset, in file order; numeric columns hold numbers, others the cell text. */
+export const datasetColumns = pgTable(
+  'dataset_columns',
+  {
+    datasetId: uuid('dataset_id').notNull().references(() => datasets.id, { onDelete: 'cascade' }),
+    position: integer('position').notNull(),
+    header: text('header').notNull(),
+    role: columnRole('role').notNull(),
+    quantity: text('quantity').notNull().default(''),
+    unit: text('unit').notNull().default(''),
+    numeric: boolean('numeric').notNull(),
+    values: jsonb('values').$type<(number | string | null)[]>().notNull(),
+  },
+  (t) => [primaryKey({ columns: [t.datasetId, t.position] })],
 );
