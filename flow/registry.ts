@@ -10,6 +10,7 @@ import { checkIntegral } from './checks/integral';
 import { checkOrder } from './checks/order';
 import { checkFixedPoint } from './checks/fixedPoint';
 import { checkStability } from './checks/stability';
+import { checkLogExponent } from './logExponent';
 import type { CompiledModel } from './model';
 import type { CheckOutcome, ClaimKind, ClaimOfKind, FlowCheck, PlainCheck } from './types';
 
@@ -31,5 +32,5 @@ export const REGISTRY: { [K in ClaimKind]: RegistryEntry<K> } = {
   'fixed-point': { flow: true, check: checkFixedPoint },
   stability: { flow: true, check: checkStability },
   'epsilon-coefficient': { flow: true, check: checkEpsilonCoefficient },
-  'log-exponent': { flow: true, check: unavailable('log-exponent') },
+  'log-exponent': { flow: true, check: checkLogExponent },
 };

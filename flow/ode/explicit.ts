@@ -14,8 +14,8 @@ export type SwitchReason = 'stiffness' | 'step budget' | 'non-finite trial step'
 export type ExplicitEnd = Stop | { outcome: 'switch'; reason: SwitchReason; t: number; y: Float64Array };
 
 /** Accepted steps before stiffness is first probed, and the probe interval. */
-const PROBE_START = 30;
-const PROBE_EVERY = 10;
+const PROBE_START = 10;
+const PROBE_EVERY = 5;
 /**
  * h |lambda| above this for a dominant real negative eigenvalue, on consecutive probes, means
  * the step is held by the explicit method's stability bound rather than by accuracy.

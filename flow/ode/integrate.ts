@@ -80,8 +80,18 @@ export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number,
   stats.evaluations++;
   ctx.hInit = options.initialStep ?? startingStep(f, t0, y, f0, t1, 4, ctx);
 
+  const implicitCtx = (): DriverContext => {
+    const given = options.implicitTolerance;
+    if (!given) return ctx;
+    return {
+      ...ctx,
+      rtol: given.rtol === undefined ? rtol : expandTolerance(given.rtol, DEFAULT_RTOL, n, 'implicitTolerance.rtol'),
+      atol: given.atol === undefined ? atol : expandTolerance(given.atol, DEFAULT_ATOL, n, 'implicitTolerance.atol'),
+    };
+  };
+
   if (method === 'implicit') {
-    const end = integrateImplicit(f, t0, y, t1, ctx);
+    const end = integrateImplicit(f, t0, y, t1, implicitCtx());
     return { ...end, method: IMPLICIT_NAME, stats, outputs };
   }
   const explicitEnd = integrateExplicit(
@@ -100,8 +110,9 @@ export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number,
   const yMid = new Float64Array(n);
   f(tSwitch, explicitEnd.y, yMid);
   stats.evaluations++;
-  ctx.hInit = startingStep(f, tSwitch, explicitEnd.y, yMid, t1, 4, ctx);
-  const end = integrateImplicit(f, tSwitch, explicitEnd.y, t1, ctx);
+  const second = implicitCtx();
+  second.hInit = startingStep(f, tSwitch, explicitEnd.y, yMid, t1, 4, second);
+  const end = integrateImplicit(f, tSwitch, explicitEnd.y, t1, second);
   return {
     ...end,
     method: `${EXPLICIT_NAME}, then ${IMPLICIT_NAME}`,

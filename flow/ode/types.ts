@@ -33,6 +33,12 @@ export interface IntegrateOptions {
   escape?: number;
   /** Only the first `escapeComponents` entries are watched for escape (default: all). */
   escapeComponents?: number;
+  /**
+   * Tolerances for the implicit method (after an 'auto' switch, or with method 'implicit');
+   * default rtol and atol. RODAS4 is of order 4, so a tolerance that suits the high-order
+   * explicit method can cost it many small steps.
+   */
+  implicitTolerance?: { rtol?: Tolerance; atol?: Tolerance };
   /** Accepted explicit steps after which 'auto' switches to the implicit method (default 2000). */
   explicitBudget?: number;
   /**
