@@ -1,7 +1,22 @@
 // The database schema. Change it here, then `npm run db:generate` writes a migration into
 // db/migrations, which the server applies at start-up.
 import { sql } from 'drizzle-orm';
-import { boolean, index, integer, jsonb, pgEnum, pgTable, primaryKey, text, timestamp, uniqueIndex, uuid } from 'drizzle-orm/pg-core';
+import {
+  bigint,
+  bigserial,
+  boolean,
+  customType,
+  index,
+  integer,
+  jsonb,
+  pgEnum,
+  pgTable,
+  primaryKey,
+  text,
+  timestamp,
+  uniqueIndex,
+  uuid,
+} from 'drizzle-orm/pg-core';
 
 export const memberRoles = ['lead', 'author', 'reviewer', 'reader'] as const;
 export type MemberRole = (typeof memberRoles)[number];
@@ -169,3 +184,34 @@ export const datasetColumns = pgTable(
   },
   (t) => [primaryKey({ columns: [t.datasetId, t.position] })],
 );
+
+// ---- collaboration: the working copy of each derivation, as Yjs updates -----------------------
+
+/** Raw bytes (PostgreSQL bytea); PGlite hands them over as a Uint8Array. */
+const bytes = customType<{ data: Uint8Array; driverData: Uint8Array }>({ dataType: () => 'bytea' });
+
+/**
+ * The append-only log of accepted document updates (Yjs update encoding), one row per update, in
+ * the order the server accepted them. Rows covered by the derivation's snapshot are removed when
+ * the snapshot is written, in the same transaction.
+ */
+export const documentUpdates = pgTable(
+  'document_updates',
+  {
+    seq: bigserial('seq', { mode: 'number' }).primaryKey(),
+    derivationId: uuid('derivation_id').notNull().references(() => derivations.id, { onDelete: 'cascade' }),
+    update: bytes('update').notNull(),
+    /** Who made it; null for updates made by the server itself (imports). */
+    userId: uuid('user_id').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+  },
+  (t) => [index('document_updates_derivation_idx').on(t.derivationId, t.seq)],
+);
+
+/** The compacted state of a derivation's document (Y.encodeStateAsUpdate), covering every update up to upToSeq. */
+export const documentSnapshots = pgTable('document_snapshots', {
+  derivationId: uuid('derivation_id').primaryKey().references(() => derivations.id, { onDelete: 'cascade' }),
+  upToSeq: bigint('up_to_seq', { mode: 'number' }).notNull(),
+  state: bytes('state').notNull(),
+  createdAt: createdAt(),
+});
