@@ -1,6 +1,8 @@
 // Opens the process's database: takes the data-folder lock, starts PGlite, applies the migrations
 // in db/migrations and registers the instance for getDb(). Node-only (the server and scripts).
-import { mkdir } from 'node:fs/promises';
+import { createHash } from 'node:crypto';
+import { mkdir, readdir, readFile, rename, rm, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { PGlite } from '@electric-sql/pglite';
 import { drizzle } from 'drizzle-orm/pglite';
@@ -29,6 +31,45 @@ export interface OpenedDatabase {
 
 export const defaultMigrationsFolder = (): string => path.join(process.cwd(), 'db', 'migrations');
 
+/**
+ * A fresh in-memory database. Initialising PostgreSQL takes seconds; an empty, migrated database
+ * is therefore kept once as a template in the temp folder (keyed by the migrations and the PGlite
+ * version) and later in-memory databases start from a copy of it.
+ */
+async function templateFile(migrationsFolder: string): Promise<string> {
+  const hash = createHash('sha256');
+  const pglitePackage = path.join(process.cwd(), 'node_modules', '@electric-sql', 'pglite', 'package.json');
+  hash.update(await readFile(pglitePackage).catch(() => Buffer.from('unknown')));
+  for (const name of (await readdir(migrationsFolder, { recursive: true })).sort()) {
+    const file = path.join(migrationsFolder, name);
+    hash.update(name).update(await readFile(file).catch(() => Buffer.alloc(0)));
+  }
+  return path.join(tmpdir(), `marginalia-empty-db-${hash.digest('hex').slice(0, 16)}.tar`);
+}
+
+async function openInMemory(migrationsFolder: string): Promise<PGlite> {
+  const template = await templateFile(migrationsFolder);
+  const saved = await readFile(template).catch(() => null);
+  if (saved) {
+    try {
+      const client = new PGlite({ loadDataDir: new Blob([saved]) });
+      await client.waitReady;
+      await migrate(drizzle({ client, schema }), { migrationsFolder });
+      return client;
+    } catch {
+      await rm(template, { force: true }); // unreadable: start afresh below
+    }
+  }
+  const client = new PGlite();
+  await client.waitReady;
+  await migrate(drizzle({ client, schema }), { migrationsFolder });
+  const dump = Buffer.from(await (await client.dumpDataDir('none')).arrayBuffer());
+  const partial = `${template}.${process.pid}.part`;
+  await writeFile(partial, dump);
+  await rename(partial, template);
+  return client;
+}
+
 export async function openDatabase(options: OpenDatabaseOptions): Promise<OpenedDatabase> {
   if (registeredDatabase()) throw new Error('The database of this process is already open.');
   const inMemory = options.dataDir === IN_MEMORY;
@@ -42,10 +83,15 @@ export async function openDatabase(options: OpenDatabaseOptions): Promise<Opened
 
   let client: PGlite | undefined;
   try {
-    client = inMemory ? new PGlite() : new PGlite(path.join(dataDir!, 'pg'));
-    await client.waitReady;
+    const migrationsFolder = options.migrationsFolder ?? defaultMigrationsFolder();
+    if (inMemory) {
+      client = await openInMemory(migrationsFolder);
+    } else {
+      client = new PGlite(path.join(dataDir!, 'pg'));
+      await client.waitReady;
+      await migrate(drizzle({ client, schema }), { migrationsFolder });
+    }
     const db = drizzle({ client, schema });
-    await migrate(db, { migrationsFolder: options.migrationsFolder ?? defaultMigrationsFolder() });
     registerDatabase({ client, dataDir });
     const opened = client;
     return {

@@ -24,7 +24,8 @@ function tooMany(minutes: number, what: string): Error {
 }
 
 function describeLifetime(seconds: number): string {
-  return seconds >= 120 ? `${Math.round(seconds / 60)} minutes` : `${seconds} seconds`;
+  if (seconds >= 120) return `${Math.round(seconds / 60)} minutes`;
+  return seconds === 1 ? '1 second' : `${seconds} seconds`;
 }
 
 export const authOptions: NextAuthOptions = {

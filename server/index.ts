@@ -112,11 +112,9 @@ async function main(): Promise<void> {
   process.once('SIGINT', () => void shuttingDown?.('SIGINT'));
   process.once('SIGTERM', () => void shuttingDown?.('SIGTERM'));
 
-  console.log(`Marginalia listening on ${originOf(config.host, port)}`);
+  // The "listening" line comes last: whoever waits for it (the test harness) has the whole banner.
   if (config.publicOrigin) console.log(`Public origin: ${config.publicOrigin}`);
-  console.log(
-    database.dataDir ? `Data folder: ${database.dataDir}` : 'Data: in memory (gone when the process ends)',
-  );
+  console.log(database.dataDir ? `Data folder: ${database.dataDir}` : 'Data: in memory (gone when the process ends)');
   if (sink) console.log(`Mail goes to the local sink (smtp://${sink.host}:${sink.port}); read it at ${origin}/mailbox`);
   if (config.demo) {
     console.log(demoLoaded ? 'Demo data loaded. Demo accounts:' : 'Demo data already present. Demo accounts:');
@@ -125,6 +123,7 @@ async function main(): Promise<void> {
     }
     console.log(`Sign in at ${origin}/signin`);
   }
+  console.log(`Marginalia listening on ${originOf(config.host, port)}`);
 }
 
 main().catch((error: unknown) => {

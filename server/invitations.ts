@@ -5,7 +5,7 @@ import { createHash, randomBytes } from 'node:crypto';
 import { and, desc, eq, gt, isNull } from 'drizzle-orm';
 import { getDb, schema, type Tx } from '../db/client';
 import type { MemberRole } from '../db/schema';
-import { conflict, forbidden, notFound } from './api/errors';
+import { ApiError, conflict, forbidden, notFound } from './api/errors';
 import { escapeHtml, sendMail } from './mail';
 
 type InvitationRow = typeof schema.invitations.$inferSelect;
@@ -118,7 +118,8 @@ export async function inviteMember(input: NewInvitation): Promise<PendingInvitat
     });
   } catch (error) {
     await db.delete(schema.invitations).where(eq(schema.invitations.id, row!.id));
-    throw error;
+    console.error(`Mailing an invitation failed: ${(error as Error).message}`);
+    throw new ApiError(503, 'The invitation could not be mailed, so it was not kept. Check the mail settings and try again.');
   }
   return { id: row!.id, email, role: row!.role, invitedBy: input.invitedBy.name, createdAt: row!.createdAt, expiresAt };
 }

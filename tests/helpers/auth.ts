@@ -52,3 +52,17 @@ export async function requestSignInLink(url: string, email: string): Promise<{ s
   // next-auth passes an error thrown while asking for a link on as "Error: <message>".
   return { status: response.status, error: error?.replace(/^Error: /, '') ?? null };
 }
+
+/** Registers an account through the real route and signs it in; returns the session cookie. */
+export async function registerAndSignIn(
+  url: string,
+  person: { name: string; email: string; password: string; invitation?: string },
+): Promise<string> {
+  const response = await fetch(`${url}/api/register`, {
+    method: 'POST',
+    headers: { 'content-type': 'application/json' },
+    body: JSON.stringify(person),
+  });
+  if (response.status !== 201) throw new Error(`Registering ${person.email} answered ${response.status}: ${await response.text()}`);
+  return signIn(url, person.email, person.password);
+}

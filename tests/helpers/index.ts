@@ -3,3 +3,4 @@ export * from './auth';
 export * from './browser';
 export * from './mailbox';
 export * from './server';
+export * from './demo';
