@@ -22,6 +22,8 @@ export interface SearchOptions {
   checkpoint: () => void;
   /** Only the guess and the extra starts (used when tracking a branch as eps varies). */
   quick?: boolean;
+  /** The point "near" is measured from (default: the guess). */
+  reference?: Float64Array;
 }
 
 export interface SearchResult {
@@ -72,10 +74,11 @@ export function searchFixedPoints(point: ModelPoint, n: number, guess: Float64Ar
     const x = result.x;
     if (!found.some((y) => distance(x, y) <= 1e-7 * (1 + maxAbs(y)))) found.push(Float64Array.from(x));
   }
-  found.sort((a, b) => distance(a, guess) - distance(b, guess));
+  const reference = options.reference ?? guess;
+  found.sort((a, b) => distance(a, reference) - distance(b, reference));
   const nearest = found[0];
-  const reach = options.proximity * Math.max(maxAbs(guess), 1e-3);
-  const located = nearest && distance(nearest, guess) <= reach ? nearest : null;
+  const reach = options.proximity * Math.max(maxAbs(reference), 1e-3);
+  const located = nearest && distance(nearest, reference) <= reach ? nearest : null;
   return { located, all: found, starts: starts.length, converged, iterations, evaluations };
 }
 

@@ -29,7 +29,7 @@ export const checkFixedPoint: FlowCheck<FixedPointClaim, CompiledModel> = (claim
     return seriesCheck(claim.order, parameter, model, near, value, settings, tolerance, ctx);
   }
 
-  const found = locate(model, point, guess, claimed ? [claimed] : [], settings, ctx);
+  const found = locate(model, point, guess, claimed ? [claimed] : [], settings, ctx, claimed ?? undefined);
   if (!found.ok) return { ...found.outcome, settings: settingsRecord, tolerance };
   const located = found.located;
   const { infos, search, sanity } = located;
@@ -51,15 +51,8 @@ export const checkFixedPoint: FlowCheck<FixedPointClaim, CompiledModel> = (claim
     };
   }
   // The claimed position: compare with the found fixed point nearest to it.
-  let nearest = located.x;
-  let difference = Number.POSITIVE_INFINITY;
-  for (const x of search.all) {
-    const d = Math.max(...Array.from(x, (xi, i) => Math.abs(xi - claimed[i]!)));
-    if (d < difference) {
-      difference = d;
-      nearest = x;
-    }
-  }
+  const nearest = located.x;
+  const difference = Math.max(...Array.from(nearest, (xi, i) => Math.abs(xi - claimed[i]!)));
   const status = verdict(difference, located.uncertainty, tolerance);
   const words: Record<Status, string> = {
     holds: `fixed point at ${describePosition(model, nearest)} matches the claimed position (difference ${fmtUncertainty(difference)} within tolerance ${fmt(tolerance)})`,

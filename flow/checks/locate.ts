@@ -87,14 +87,17 @@ export function locate(
   extra: readonly Float64Array[],
   settings: LocateSettings,
   ctx: CheckContext,
+  /** Accept the fixed point nearest to this point, however far (a claimed position). */
+  reference?: Float64Array,
 ): { ok: true; located: Located } | { ok: false; outcome: CheckOutcome } {
   const options = {
     starts: settings.starts,
     tolerance: settings.newtonTolerance,
     maxIterations: settings.maxIterations,
-    proximity: settings.proximity,
+    proximity: reference ? Number.POSITIVE_INFINITY : settings.proximity,
     random: ctx.random,
     checkpoint: ctx.checkpoint,
+    ...(reference ? { reference } : {}),
   };
   let search = searchFixedPoints(point, model.dimension, guess, extra, options);
   const complexSearch = search.located ? null : complexFixedPoints(model, point, guess[0]!, ctx.checkpoint);
