@@ -277,6 +277,7 @@ export const checkLogExponent: FlowCheck<LogExponentClaim, CompiledModel> = (cla
         : base.outcome === 'deadline'
           ? `the integration reached the time bound at ${where}`
           : `the integration stopped (${base.outcome}) at ${where}`;
+    if (base.outcome === 'escaped') values['RG time of escape'] = base.lastL;
     return { status: 'inconclusive', message: reason, method, expected, tolerance, settings: settingsRecord, stats, sanity, evidence: { values } };
   }
   const notMarginal = sanity.find((f) => f.check === 'asymptote' && !f.ok);

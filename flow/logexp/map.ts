@@ -15,6 +15,7 @@ import { integralContinuation, type ExponentRun } from './run';
 import { evaluate, eulerMaclaurinBoundary, interpolatingField, derivative, type Series } from './series';
 import type { LogExponentProblem } from './problem';
 import { ExpressionError } from '../errors';
+import { SeriesUnavailable, taylorSeries } from './jets';
 
 const SERIES_ORDER = 10;
 /** Steps iterated before the interpolating flow takes over (and the coupling size it needs). */
@@ -67,9 +68,11 @@ function advance(problem: LogExponentProblem, state: MapState, next: Float64Arra
   state.j += 1;
 }
 
-function seriesOf(problem: LogExponentProblem, target: { field: string } | { rate: string }): Series {
-  const c = problem.point.taylor(target, problem.couplings[0]!, SERIES_ORDER);
-  return Float64Array.from(c);
+/** Taylor coefficients at zero coupling of the map's displacement F(g) - g or of a rate. */
+function seriesOf(problem: LogExponentProblem, target: { field: true } | { rate: string }): Series {
+  const { model, point } = problem;
+  const term = 'field' in target ? model.fieldTerms[0]! : model.rateTerm(target.rate);
+  return taylorSeries(term, model.couplings[0]!, point.parameters, SERIES_ORDER);
 }
 
 export function runMap(problem: LogExponentProblem, start: Float64Array, settings: RunSettings): ExponentRun {
@@ -149,13 +152,12 @@ function continueByInterpolatingFlow(
   notes: string[],
   direct: string,
 ): ExponentRun {
-  const name = problem.couplings[0]!;
   let v: Series;
   let rt: Series;
   let ro: Series;
   try {
-    const displacement = seriesOf(problem, { field: name });
-    if (Math.abs(displacement[1]!) > 1e-12) throw new ExpressionError('not marginal', 'flow.beta', '');
+    const displacement = seriesOf(problem, { field: true });
+    if (Math.abs(displacement[1]!) > 1e-12) throw new SeriesUnavailable('the map is not marginal at zero coupling');
     v = interpolatingField(displacement);
     rt = seriesOf(problem, { rate: problem.scaling.name });
     rt[0] = 0;
@@ -171,8 +173,8 @@ function continueByInterpolatingFlow(
       }
     }
   } catch (error) {
-    if (!(error instanceof ExpressionError)) throw error;
-    notes.push(`${direct}; no Taylor series at zero coupling, so no interpolating flow`);
+    if (!(error instanceof SeriesUnavailable || error instanceof ExpressionError)) throw error;
+    notes.push(`${direct}; no interpolating flow (${error.message})`);
     return {
       points,
       fitForm: 'first-order',
