@@ -83,12 +83,12 @@ describe('adaptive Gauss–Kronrod quadrature', () => {
 
 describe('Taylor coefficients from values', () => {
   it('recovers exp and ln(1+x) coefficients with uncertainties that cover the true error', () => {
-    const exp = expandAtZero(Math.exp, 6, { radius: 0.5, extraDegree: 10 })!;
+    const exp = expandAtZero(Math.exp, 6, { radius: 1, extraDegree: 10 })!;
     let factorial = 1;
     exp.coefficients.forEach((c, k) => {
       if (k > 0) factorial *= k;
       expect(Math.abs(c - 1 / factorial)).toBeLessThanOrEqual(exp.uncertainties[k]!);
-      expect(exp.uncertainties[k]!).toBeLessThan(1e-6);
+      expect(exp.uncertainties[k]!).toBeLessThan(1e-7);
     });
     const log = expandAtZero(Math.log1p, 4, { radius: 0.2, extraDegree: 10 })!;
     log.coefficients.forEach((c, k) => {
