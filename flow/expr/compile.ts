@@ -23,7 +23,19 @@ function slotIndex(name: string, slots: ReadonlyMap<string, number>): number {
   return index;
 }
 
-function emit(term: Term, slots: ReadonlyMap<string, number>): string {
+/** Temporaries for integer powers of compound bases, declared at the top of the generated function. */
+interface Emitter {
+  temporaries: number;
+}
+
+function integerPower(base: string, k: number, simple: boolean, emitter: Emitter): string {
+  if (simple) return `(${Array.from({ length: k }, () => base).join(' * ')})`;
+  const t = `t${emitter.temporaries++}`;
+  return `((${t} = ${base}), ${Array.from({ length: k }, () => t).join(' * ')})`;
+}
+
+function emit(term: Term, slots: ReadonlyMap<string, number>, emitter: Emitter = { temporaries: 0 }): string {
+  const recurse = (x: Term): string => emit(x, slots, emitter);
   switch (term.t) {
     case 'num':
     case 'const':
@@ -31,14 +43,21 @@ function emit(term: Term, slots: ReadonlyMap<string, number>): string {
     case 'sym':
       return `s[${slotIndex(term.name, slots)}]`;
     case 'neg':
-      return `(-${emit(term.a, slots)})`;
+      return `(-${recurse(term.a)})`;
     case 'op':
-      if (term.op === '^') return `Math.pow(${emit(term.a, slots)}, ${emit(term.b, slots)})`;
-      return `(${emit(term.a, slots)} ${term.op} ${emit(term.b, slots)})`;
+      if (term.op === '^') {
+        // Small integer powers as products: exact like Math.pow for these, and much faster.
+        if (term.b.t === 'num' && Number.isInteger(term.b.v) && term.b.v >= 2 && term.b.v <= 6) {
+          const simple = term.a.t === 'sym' || term.a.t === 'num' || term.a.t === 'const';
+          return integerPower(recurse(term.a), term.b.v, simple, emitter);
+        }
+        return `Math.pow(${recurse(term.a)}, ${recurse(term.b)})`;
+      }
+      return `(${recurse(term.a)} ${term.op} ${recurse(term.b)})`;
     case 'call': {
       const spec = FUNCTIONS[term.f] ?? internalSpec(term.f);
       const js = term.f === 'log' && term.args.length === 2 ? 'H.logb' : spec.js;
-      return `${js}(${term.args.map((arg) => emit(arg, slots)).join(', ')})`;
+      return `${js}(${term.args.map(recurse).join(', ')})`;
     }
   }
 }
@@ -137,16 +156,23 @@ function slotMap(slots: readonly string[]): Map<string, number> {
   return new Map(slots.map((name, index) => [name, index]));
 }
 
+function declarations(emitter: Emitter): string {
+  return emitter.temporaries === 0 ? '' : `let ${Array.from({ length: emitter.temporaries }, (_, i) => `t${i}`).join(', ')};\n`;
+}
+
 export function compileScalar(term: Term, slots: readonly string[]): ScalarFunction {
   const map = slotMap(slots);
-  const generated = generate<ScalarFunction>(`return function (s) { return ${emit(term, map)}; };`);
+  const emitter: Emitter = { temporaries: 0 };
+  const body = emit(term, map, emitter);
+  const generated = generate<ScalarFunction>(`return function (s) {\n${declarations(emitter)}return ${body};\n};`);
   return generated ?? closure(term, map);
 }
 
 export function compileVector(terms: readonly Term[], slots: readonly string[]): VectorFunction {
   const map = slotMap(slots);
-  const lines = terms.map((term, i) => `o[${i}] = ${emit(term, map)};`).join('\n');
-  const generated = generate<VectorFunction>(`return function (s, o) {\n${lines}\n};`);
+  const emitter: Emitter = { temporaries: 0 };
+  const lines = terms.map((term, i) => `o[${i}] = ${emit(term, map, emitter)};`).join('\n');
+  const generated = generate<VectorFunction>(`return function (s, o) {\n${declarations(emitter)}${lines}\n};`);
   if (generated) return generated;
   const parts = terms.map((term) => closure(term, map));
   return (s, o) => {
