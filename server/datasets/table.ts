@@ -113,24 +113,31 @@ function firstInvalidUtf8(bytes: Uint8Array): number {
 
 // ---- which separator, by content ------------------------------------------------------------
 
-/** Field counts of the first rows under one separator: consistent and wider than one column? */
-function widthUnder(sample: string, delimiter: string): number | null {
+/**
+ * How well the first rows split under one separator: the header's width and the share of rows of
+ * that width. A few ragged rows still count (they are reported on their lines later); one column does not.
+ */
+function splitUnder(sample: string, delimiter: string): { width: number; share: number } | null {
   const rows = Papa.parse<string[]>(sample, { delimiter, preview: 40, skipEmptyLines: 'greedy' }).data;
   if (rows.length === 0) return null;
   const width = rows[0]!.length;
-  if (width < 2 || rows.some((r) => r.length !== width)) return null;
-  return width;
+  if (width < 2) return null;
+  const share = rows.filter((r) => r.length === width).length / rows.length;
+  return share >= 0.75 ? { width, share } : null;
+}
+
+function sampleOf(text: string): string {
+  const sample = text.slice(0, 64 * 1024);
+  return sample.length < text.length ? sample.slice(0, Math.max(sample.lastIndexOf('\n'), 0)) : sample;
 }
 
 /** The format the content shows (not the file name), or null when it shows neither. */
 export function detectFormat(text: string): DatasetFormat | null {
-  let sample = text.slice(0, 64 * 1024);
-  if (sample.length < text.length) sample = sample.slice(0, Math.max(sample.lastIndexOf('\n'), 0));
-  const comma = widthUnder(sample, ',');
-  const tab = widthUnder(sample, '\t');
-  if (tab !== null && (comma === null || tab >= comma)) return 'tsv';
-  if (comma !== null) return 'csv';
-  return null;
+  const sample = sampleOf(text);
+  const comma = splitUnder(sample, ',');
+  const tab = splitUnder(sample, '\t');
+  if (tab && (!comma || tab.share > comma.share || (tab.share === comma.share && tab.width >= comma.width))) return 'tsv';
+  return comma ? 'csv' : null;
 }
 
 /** Checks the declared format against the content; a problem when they differ or neither fits. */
@@ -139,7 +146,7 @@ export function formatIssue(text: string, declared: DatasetFormat): TableIssue |
   if (detected === declared) return null;
   if (detected === null) {
     // The declared separator may still give a consistent table when the other one would not.
-    return widthUnder(text.slice(0, 64 * 1024), delimiterOf[declared]) === null
+    return splitUnder(sampleOf(text), delimiterOf[declared]) === null
       ? issue(
           null,
           null,
