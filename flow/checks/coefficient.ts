@@ -43,7 +43,7 @@ export const checkCoefficient: PlainCheck<CoefficientClaim> = (claim, ctx) => {
   // Symbolic: the k-th derivative at the point, divided by k!.
   let symbolic: Term | null = null;
   try {
-    const derivative = differentiateTimes(of, claim.variable, claim.power, declared, `${where}.of`);
+    const derivative = differentiateTimes(of, claim.variable, claim.power, declared, `${where}.of`, ctx.checkpoint);
     symbolic = div(substitute(derivative, new Map([[claim.variable, at]])), num(factorial(claim.power)));
   } catch (error) {
     if (!(error instanceof ExpressionError)) throw error;

@@ -55,6 +55,14 @@ export const checkOrder: PlainCheck<OrderClaim> = (claim, ctx) => {
     const x = settings.start * Math.pow(settings.ratio, j);
     let difference: number | null = null;
     let scale = 0;
+    const vector = [x, ...others.map((name) => fixed[name]!), ...parameterNames.map((name) => ctx.parameters[name]!)];
+    const lDouble = left(vector);
+    const rDouble = right(vector);
+    if (!Number.isFinite(lDouble) || !Number.isFinite(rDouble)) {
+      // Not a real number here (or beyond double range, where high precision could take very long).
+      undefinedPoints++;
+      continue;
+    }
     if (highPrecision) {
       try {
         const values = { ...bigFixed, [claim.variable]: toBig(x) };
@@ -74,13 +82,8 @@ export const checkOrder: PlainCheck<OrderClaim> = (claim, ctx) => {
         continue;
       }
     } else {
-      const vector = [x, ...others.map((name) => fixed[name]!), ...parameterNames.map((name) => ctx.parameters[name]!)];
-      const l = left(vector);
-      const r = right(vector);
-      if (Number.isFinite(l) && Number.isFinite(r)) {
-        difference = Math.abs(l - r);
-        scale = 1e3 * EPSILON * Math.max(Math.abs(l), Math.abs(r));
-      }
+      difference = Math.abs(lDouble - rDouble);
+      scale = 1e3 * EPSILON * Math.max(Math.abs(lDouble), Math.abs(rDouble));
     }
     if (difference === null || !Number.isFinite(difference)) {
       undefinedPoints++;

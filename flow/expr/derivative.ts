@@ -6,7 +6,10 @@ import { derivative as mathDerivative } from 'mathjs';
 import { ExpressionError } from '../errors';
 import { BoundedCache } from './cache';
 import { nodeToTerm, parseNode } from './parse';
-import { type Term, add, sub, mul, div, pow, neg, num, toMathString } from './term';
+import { type Term, add, sub, mul, div, pow, neg, num, termSize, toMathString } from './term';
+
+/** Beyond this many nodes a derivative is refused (repeated product rules grow exponentially). */
+const MAX_DERIVATIVE_SIZE = 20_000;
 
 const cache = new BoundedCache<string, Term>(4000);
 
@@ -72,9 +75,15 @@ export function differentiate(term: Term, variable: string, declared: ReadonlySe
   return result;
 }
 
-/** The k-th derivative (k >= 0). */
-export function differentiateTimes(term: Term, variable: string, times: number, declared: ReadonlySet<string>, where: string): Term {
+/** The k-th derivative (k >= 0); `checkpoint` runs between orders (time bound, cancellation). */
+export function differentiateTimes(term: Term, variable: string, times: number, declared: ReadonlySet<string>, where: string, checkpoint?: () => void): Term {
   let result = fold(term);
-  for (let k = 0; k < times; k++) result = differentiate(result, variable, declared, where);
+  for (let k = 0; k < times; k++) {
+    checkpoint?.();
+    result = differentiate(result, variable, declared, where);
+    if (termSize(result) > MAX_DERIVATIVE_SIZE) {
+      throw new ExpressionError(`${where}: the derivative of order ${k + 1} with respect to ${variable} is too large to form symbolically`, where, toMathString(term));
+    }
+  }
   return result;
 }

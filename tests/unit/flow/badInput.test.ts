@@ -18,6 +18,24 @@ describe('bad input gets a clear message and changes nothing else', () => {
     expect(report.claims[1]!.status).toBe('holds');
   });
 
+  it('a malformed rate makes only the claims that use it invalid', () => {
+    const flow: FlowSpec = { ...onFlow(1, 0.1), rates: { t: '2 - (n+2)/3*g', chi: '2 - (n+2)/18*g^^2' } };
+    const near = { g: '3*eps/(n+8)' };
+    const report = run(flow, [
+      { id: 'fp', kind: 'fixed-point', near },
+      { id: 'nu', kind: 'epsilon-coefficient', quantity: '1/t', near, power: 1, value: '(n+2)/(4*(n+8))' },
+      { id: 'eta', kind: 'epsilon-coefficient', quantity: '2 - chi', near, power: 2, value: 0 },
+    ]);
+    expect(report.claims.map((c) => c.status)).toEqual(['holds', 'holds', 'invalid']);
+    expect(report.claims[2]!.message).toContain('flow.rates.chi');
+  });
+
+  it('a high-order coefficient of a function whose derivatives grow quickly still ends within the time bound', () => {
+    const result = one(undefined, { kind: 'coefficient', of: 'exp(sin(x))*tan(x)', variable: 'x', power: 24, value: 0 }, { timeLimitMs: 300 });
+    expect(['holds', 'fails', 'inconclusive']).toContain(result.status);
+    expect(result.ms).toBeLessThan(2000);
+  });
+
   it('a syntax error in a claim names the field, the text and the position', () => {
     const result = one(undefined, { kind: 'identity', lhs: '(x + 1', rhs: 'x' });
     expect(result.status).toBe('invalid');
