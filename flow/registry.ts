@@ -1,7 +1,6 @@
 /**
  * Which function checks which claim kind. Flow kinds receive the compiled model; the others
- * only the context. To wire the log-exponent module: import its check here and put it in the
- * 'log-exponent' entry (signature FlowCheck<LogExponentClaim, CompiledModel> from types.ts).
+ * only the context (signatures FlowCheck and PlainCheck in types.ts).
  */
 import { checkCoefficient } from './checks/coefficient';
 import { checkEpsilonCoefficient } from './checks/epsilonCoefficient';
@@ -12,17 +11,11 @@ import { checkFixedPoint } from './checks/fixedPoint';
 import { checkStability } from './checks/stability';
 import { checkLogExponent } from './logExponent';
 import type { CompiledModel } from './model';
-import type { CheckOutcome, ClaimKind, ClaimOfKind, FlowCheck, PlainCheck } from './types';
+import type { ClaimKind, ClaimOfKind, FlowCheck, PlainCheck } from './types';
 
 export type RegistryEntry<K extends ClaimKind = ClaimKind> =
   | { flow: false; check: PlainCheck<ClaimOfKind<K>> }
   | { flow: true; check: FlowCheck<ClaimOfKind<K>, CompiledModel> };
-
-const unavailable = (what: string) => (): CheckOutcome => ({
-  status: 'invalid',
-  message: `${what} checks are not available in this build`,
-  method: 'none',
-});
 
 export const REGISTRY: { [K in ClaimKind]: RegistryEntry<K> } = {
   identity: { flow: false, check: checkIdentity },
