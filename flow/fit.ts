@@ -256,8 +256,9 @@ export function fitPowerLog(data: FitData, spec: FitSpec = {}): PowerLogFit {
 
   // Start: the linear fit of ln|y|, weighted by the relative error bars.
   const start = normalEquations(d, new Array<number>(k).fill(0), layout, scale === 'linear' ? 'start' : 'log');
-  let theta = solve(start.JtJ, start.Jtr);
-  if (!theta) throw new FitInputError(degenerate(layout));
+  const initial = solve(start.JtJ, start.Jtr);
+  if (!initial) throw new FitInputError(degenerate(layout));
+  let theta: number[] = initial;
   let iterations = 0;
   let converged = scale === 'log';
   if (scale === 'log') {
@@ -279,7 +280,7 @@ export function fitPowerLog(data: FitData, spec: FitSpec = {}): PowerLogFit {
         if (lambda > 1e16) break;
         continue;
       }
-      const trial = theta.map((t, i) => t + step[i]!);
+      const trial: number[] = theta.map((t, i) => t + step[i]!);
       const trialChi2 = chiSquareOf(d, trial, layout, scale);
       if (Number.isFinite(trialChi2) && trialChi2 <= chi2) {
         const small = step.every((s, i) => Math.abs(s) <= 1e-10 * (Math.abs(trial[i]!) + 1e-10));
