@@ -25,8 +25,11 @@ export const LOG_EXPONENT_DEFAULTS = {
   rtol: 1e-10,
   /** Integrate to RG time 10^decades (for maps: 10^decades steps, partly by the asymptotic flow). */
   decades: 17,
-  /** Decades of RG time in the extrapolation window (ending at the last decade). */
-  window: 12,
+  /**
+   * Decades of RG time in the extrapolation window, ending at the last decade: from 1e9 on the
+   * next-order corrections (ln(l)/l)^2 are below 1e-15, so the first-order form is exact there.
+   */
+  window: 9,
   /** The start is varied by this factor up and down. */
   startScale: 1.5,
 };

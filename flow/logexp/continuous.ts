@@ -146,31 +146,53 @@ export function integrateScaled(
     return true;
   };
 
-  const result = integrate(rhs, s0, y0, times[times.length - 1]!, {
-    onStep,
-    rtol: settings.rtol,
-    atol: settings.rtol * 1e-3,
-    // Early errors die out in the far infrared (every start flows onto the same 1/l ray), so
-    // the order-4 implicit method runs at a moderate tolerance; the tolerance variation of the
-    // check measures what that costs.
-    implicitTolerance: { rtol: Math.max(settings.rtol, IMPLICIT_RTOL), atol: Math.max(settings.rtol, IMPLICIT_RTOL) * 1e-3 },
-    maxSteps: 200_000,
-    explicitBudget: 300,
-    deadline: settings.deadline,
-    jacobian: jacobian ?? undefined,
-    event: escapeEvent,
-    outputTimes: times,
-  });
-  return {
-    outputs: result.outputs,
-    outcome: result.outcome === 'event' ? 'escaped' : decayFailed ? 'no-decay' : result.outcome,
-    sEnd: result.t,
-    yEnd: result.y,
-    method: result.method,
-    switchedAtS: result.switchedAt,
-    switchReason: result.switchReason,
-    stats: result.stats,
-  };
+  // Decade by decade: each segment ends exactly on an output time (no interpolated states),
+  // and carries the step size and, once it has switched, the implicit method into the next.
+  const outputs: { t: number; y: Float64Array }[] = [];
+  const stats = { steps: 0, accepted: 0, rejected: 0, evaluations: 0, jacobians: 0 };
+  let s = s0;
+  let y = y0;
+  let step: number | undefined;
+  let method: 'auto' | 'implicit' = 'auto';
+  let methodName = '';
+  let switchedAtS: number | undefined;
+  let switchReason: string | undefined;
+  let outcome: ScaledRun['outcome'] = 'reached';
+  for (const target of times) {
+    if (target <= s) continue;
+    const result = integrate(rhs, s, y, target, {
+      onStep,
+      rtol: settings.rtol,
+      atol: settings.rtol * 1e-3,
+      // Early errors die out in the far infrared (every start flows onto the same 1/l ray), so
+      // the order-4 implicit method runs at a moderate tolerance; the tolerance variation of the
+      // check measures what that costs.
+      implicitTolerance: { rtol: Math.max(settings.rtol, IMPLICIT_RTOL), atol: Math.max(settings.rtol, IMPLICIT_RTOL) * 1e-3 },
+      method,
+      initialStep: step,
+      maxSteps: Math.max(1, 200_000 - stats.steps),
+      explicitBudget: 300,
+      deadline: settings.deadline,
+      jacobian: jacobian ?? undefined,
+      event: escapeEvent,
+    });
+    for (const key of Object.keys(stats) as (keyof typeof stats)[]) stats[key] += result.stats[key];
+    if (!methodName || result.switchedAt !== undefined) methodName = result.method;
+    if (result.switchedAt !== undefined) {
+      switchedAtS = result.switchedAt;
+      switchReason = result.switchReason;
+      method = 'implicit';
+    }
+    s = result.t;
+    y = result.y;
+    if (result.lastStep) step = Math.abs(result.lastStep);
+    if (result.outcome !== 'reached') {
+      outcome = result.outcome === 'event' ? 'escaped' : decayFailed ? 'no-decay' : result.outcome;
+      break;
+    }
+    outputs.push({ t: target, y: Float64Array.from(y) });
+  }
+  return { outputs, outcome, sEnd: s, yEnd: y, method: methodName, switchedAtS, switchReason, stats };
 }
 
 function analyticJacobian(problem: LogExponentProblem, source: FieldSource, n: number, size: number): Jacobian | null {

@@ -16,6 +16,8 @@ export interface DriverContext {
   jacobian?: Jacobian;
   monitor: StepMonitor;
   stats: IntegrateStats;
+  /** Size of the last accepted step (signed), updated by the methods. */
+  lastStep: number;
 }
 
 /** Root-mean-square of v_i / (atol_i + rtol_i max(|a_i|, |b_i|)). */

@@ -49,14 +49,15 @@ export function integrateExplicit(
   const { n, stats, monitor } = ctx;
   const yBuffer = new Float64Array(n);
   const dBuffer = new Float64Array(n);
+  // odex copies the returned values at once, so one array serves every call.
+  const out = new Array<number>(n).fill(0);
   const wrapped = (x: number, y: number[]): number[] => {
-    for (let i = 0; i < n; i++) yBuffer[i] = y[i];
+    for (let i = 0; i < n; i++) yBuffer[i] = y[i]!;
     f(x, yBuffer, dBuffer);
     stats.evaluations++;
     if (!allFinite(dBuffer)) throw new AbortIntegration('non-finite');
     if ((stats.evaluations & 255) === 0 && monitor.pastDeadline()) throw new AbortIntegration('deadline');
-    const out = new Array<number>(n);
-    for (let i = 0; i < n; i++) out[i] = dBuffer[i];
+    for (let i = 0; i < n; i++) out[i] = dBuffer[i]!;
     return out;
   };
 
@@ -160,6 +161,7 @@ export function integrateExplicit(
     }
     lastT = x;
     lastY = yNew;
+    ctx.lastStep = x - xOld;
     accepted++;
     if (switchable && accepted >= PROBE_START && accepted % PROBE_EVERY === 0) {
       const h = Math.abs(x - xOld);

@@ -74,11 +74,16 @@ export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number,
     jacobian: options.jacobian,
     monitor,
     stats,
+    lastStep: 0,
   };
-  const f0 = new Float64Array(n);
-  f(t0, y, f0);
-  stats.evaluations++;
-  ctx.hInit = options.initialStep ?? startingStep(f, t0, y, f0, t1, 4, ctx);
+  if (options.initialStep !== undefined && options.initialStep > 0) {
+    ctx.hInit = options.initialStep;
+  } else {
+    const f0 = new Float64Array(n);
+    f(t0, y, f0);
+    stats.evaluations++;
+    ctx.hInit = startingStep(f, t0, y, f0, t1, 4, ctx);
+  }
 
   const implicitCtx = (): DriverContext => {
     const given = options.implicitTolerance;
@@ -91,8 +96,9 @@ export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number,
   };
 
   if (method === 'implicit') {
-    const end = integrateImplicit(f, t0, y, t1, implicitCtx());
-    return { ...end, method: IMPLICIT_NAME, stats, outputs };
+    const only = implicitCtx();
+    const end = integrateImplicit(f, t0, y, t1, only);
+    return { ...end, method: IMPLICIT_NAME, stats, outputs, lastStep: only.lastStep };
   }
   const explicitEnd = integrateExplicit(
     f,
@@ -104,7 +110,7 @@ export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number,
     Math.max(1, options.explicitBudget ?? DEFAULT_EXPLICIT_BUDGET),
     (options.outputTimes?.length ?? 0) > 0,
   );
-  if (explicitEnd.outcome !== 'switch') return { ...explicitEnd, method: EXPLICIT_NAME, stats, outputs };
+  if (explicitEnd.outcome !== 'switch') return { ...explicitEnd, method: EXPLICIT_NAME, stats, outputs, lastStep: ctx.lastStep };
 
   const tSwitch = explicitEnd.t;
   const yMid = new Float64Array(n);
@@ -120,5 +126,6 @@ export function integrate(f: Rhs, t0: number, y0: ArrayLike<number>, t1: number,
     switchReason: explicitEnd.reason,
     stats,
     outputs,
+    lastStep: second.lastStep,
   };
 }

@@ -164,6 +164,7 @@ export function integrateImplicit(f: Rhs, t0: number, y0: Float64Array, t1: numb
       hAccepted = h;
       errAccepted = Math.max(1e-2, e);
       const tNew = last ? t1 : t + h;
+      ctx.lastStep = tNew - t;
       const stop = monitor.check(t, y, tNew, trial, advance);
       if (stop) return stop;
       const previous = y;

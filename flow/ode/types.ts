@@ -85,6 +85,8 @@ export interface IntegrateResult {
   stats: IntegrateStats;
   /** The state at each requested output time reached before the integration ended. */
   outputs: { t: number; y: Float64Array }[];
+  /** Size of the last accepted step (signed; 0 if none): a good initialStep to continue from t. */
+  lastStep?: number;
 }
 
 export const EXPLICIT_NAME = 'explicit (odex)';
