@@ -18,6 +18,10 @@ function factorial(k: number): number {
 
 export const checkCoefficient: PlainCheck<CoefficientClaim> = (claim, ctx) => {
   const settings = ctx.settings(DEFAULTS);
+  if (ctx.tight) {
+    settings.points *= 2;
+    settings.extraDegree += 2;
+  }
   const tolerance = claim.tolerance ?? DEFAULT_TOLERANCE;
   const where = ctx.where;
   checkName(claim.variable, `${where}.variable`, 'variable');

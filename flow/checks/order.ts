@@ -31,7 +31,7 @@ export const checkOrder: PlainCheck<OrderClaim> = (claim, ctx) => {
   const settingsRecord = { ...settings, tolerance: settings.slack };
   const base = { method: '', settings: settingsRecord, expected: claim.order, tolerance: settings.slack };
   if (exactDifference(lhs, rhs) === 'zero') {
-    return { ...base, status: 'holds', message: 'lhs - rhs is identically zero (exact algebra)', method: 'exact algebra', measured: Number.POSITIVE_INFINITY };
+    return { ...base, status: 'holds', message: 'lhs - rhs is identically zero (exact algebra)', method: 'exact algebra', measured: null };
   }
   // The other free variables are held at one point from the fixed random start.
   const fixed: Record<string, number> = {};
@@ -99,7 +99,7 @@ export const checkOrder: PlainCheck<OrderClaim> = (claim, ctx) => {
   const stats = { used: samples.length, belowRounding: belowNoise, undefined: undefinedPoints, precision: highPrecision ? 'high' : 'double' };
   base.method = `|lhs - rhs| on x = ${fmt(settings.start)} * ${fmt(settings.ratio)}^j in ${precision}; log-log slope over the smallest ${settings.tail} usable x`;
   if (samples.length === 0 && belowNoise > 0) {
-    return { ...base, status: 'holds', message: `lhs - rhs vanishes to rounding at every sampled ${claim.variable}`, measured: Number.POSITIVE_INFINITY, stats };
+    return { ...base, status: 'holds', message: `lhs - rhs vanishes to rounding at every sampled ${claim.variable}`, measured: null, stats };
   }
   if (samples.length < 4) {
     return { ...base, status: 'inconclusive', message: `only ${samples.length} usable values of ${claim.variable} (the others were undefined or below rounding)`, stats };

@@ -5,7 +5,8 @@
  * Policy), the same term is compiled to nested closures instead.
  */
 import { FUNCTIONS, helpers } from './functions';
-import type { Term } from './term';
+import { BoundedCache } from './cache';
+import { type Term, toMathString } from './term';
 
 export type ScalarFunction = (slots: ArrayLike<number>) => number;
 export type VectorFunction = (slots: ArrayLike<number>, out: Float64Array) => void;
@@ -160,7 +161,31 @@ function declarations(emitter: Emitter): string {
   return emitter.temporaries === 0 ? '' : `let ${Array.from({ length: emitter.temporaries }, (_, i) => `t${i}`).join(', ')};\n`;
 }
 
+const scalarCache = new BoundedCache<string, ScalarFunction>(4000);
+const vectorCache = new BoundedCache<string, VectorFunction>(500);
+
+/** Compile (cached per expression and slot layout). */
 export function compileScalar(term: Term, slots: readonly string[]): ScalarFunction {
+  const key = `${slots.join(',')}\u0000${toMathString(term)}`;
+  let fn = scalarCache.get(key);
+  if (!fn) {
+    fn = compileScalarUncached(term, slots);
+    scalarCache.set(key, fn);
+  }
+  return fn;
+}
+
+export function compileVector(terms: readonly Term[], slots: readonly string[]): VectorFunction {
+  const key = `${slots.join(',')}\u0000${terms.map(toMathString).join('\u0001')}`;
+  let fn = vectorCache.get(key);
+  if (!fn) {
+    fn = compileVectorUncached(terms, slots);
+    vectorCache.set(key, fn);
+  }
+  return fn;
+}
+
+function compileScalarUncached(term: Term, slots: readonly string[]): ScalarFunction {
   const map = slotMap(slots);
   const emitter: Emitter = { temporaries: 0 };
   const body = emit(term, map, emitter);
@@ -168,7 +193,7 @@ export function compileScalar(term: Term, slots: readonly string[]): ScalarFunct
   return generated ?? closure(term, map);
 }
 
-export function compileVector(terms: readonly Term[], slots: readonly string[]): VectorFunction {
+function compileVectorUncached(terms: readonly Term[], slots: readonly string[]): VectorFunction {
   const map = slotMap(slots);
   const emitter: Emitter = { temporaries: 0 };
   const lines = terms.map((term, i) => `o[${i}] = ${emit(term, map, emitter)};`).join('\n');
