@@ -28,10 +28,12 @@ export async function fetchJson<T>(path: string, init: { method?: string; body?:
 /** A same-site path to return to after signing in; anything else falls back to /groups. */
 export function safeReturnPath(raw: string | null | undefined): string {
   if (!raw) return '/groups';
+  const base = 'http://local.invalid';
+  const ours = new Set([base, ...(typeof window === 'undefined' ? [] : [window.location.origin])]);
   try {
-    const url = new URL(raw, 'http://local.invalid');
-    if (url.origin !== 'http://local.invalid' && typeof window !== 'undefined' && url.origin !== window.location.origin) return '/groups';
-    return `${url.pathname}${url.search}${url.hash}` || '/groups';
+    const url = new URL(raw, base);
+    if (!ours.has(url.origin)) return '/groups';
+    return `${url.pathname}${url.search}${url.hash}`;
   } catch {
     return '/groups';
   }

@@ -211,6 +211,20 @@ describe('members and roles', () => {
     expect((await demo.as.lead.get<{ role: string }>(`/api/groups/${demo.groupId}`)).body.role).toBe('lead');
   });
 
+  test('only the lead renames the group or changes its description', async () => {
+    for (const role of ['author', 'reviewer', 'reader'] as const) {
+      expect((await demo.as[role].patch(`/api/groups/${demo.groupId}`, { name: `Renamed by ${role}` })).status).toBe(403);
+    }
+    const renamed = await demo.as.lead.patch<{ name: string; description: string }>(`/api/groups/${demo.groupId}`, {
+      description: 'Chains in four dimensions, and their logarithms.',
+    });
+    expect(renamed.status).toBe(200);
+    expect(renamed.body.name).toBe('Chain Growth Group');
+    expect((await demo.as.reader.get<{ description: string }>(`/api/groups/${demo.groupId}`)).body.description).toBe(
+      'Chains in four dimensions, and their logarithms.',
+    );
+  });
+
   test('a group name that is missing or too long is refused on the name field', async () => {
     const missing = await outsider.post<ApiError>('/api/groups', { description: 'no name' });
     expect(missing.status).toBe(400);
