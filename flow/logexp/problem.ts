@@ -57,40 +57,42 @@ function rateOf(model: CompiledModel, point: ModelPoint, name: string, where: st
   return { name, atZero: fns.atZero, anomalous: fns.anomalous };
 }
 
-export function readProblem(claim: LogExponentClaim, model: CompiledModel): LogExponentProblem {
+/** `where` names the claim in messages, e.g. "claims[3]". */
+export function readProblem(claim: LogExponentClaim, model: CompiledModel, where = 'claim'): LogExponentProblem {
+  const at = (field: string): string => `${where}.${field}`;
   for (const key of Object.keys(claim)) {
     if (!OWN_FIELDS.has(key)) {
-      throw new ClaimInputError(key, `${key}: unknown field of a log-exponent claim (fields: scaling, observable, start, value, power, parameter, tolerance, settings, note)`);
+      throw new ClaimInputError(at(key), `${at(key)}: unknown field of a log-exponent claim (fields: scaling, observable, start, value, power, parameter, tolerance, settings, note)`);
     }
   }
   if (claim.value === undefined && claim.power === undefined) {
-    throw new ClaimInputError('value', 'value: missing; a log-exponent claim states value (the exponent p of |ln t0|) and/or power (the exponent x of t0)');
+    throw new ClaimInputError(at('value'), `${at('value')}: missing; a log-exponent claim states value (the exponent p of |ln t0|) and/or power (the exponent x of t0)`);
   }
   const expansionParameter = typeof claim.parameter === 'string' ? claim.parameter : 'eps';
   if (claim.parameter !== undefined && !model.parameterNames.includes(expansionParameter)) {
-    throw new ClaimInputError('parameter', `parameter: "${expansionParameter}" is not a parameter of this flow (parameters: ${model.parameterNames.join(', ') || 'none'})`);
+    throw new ClaimInputError(at('parameter'), `${at('parameter')}: "${expansionParameter}" is not a parameter of this flow (parameters: ${model.parameterNames.join(', ') || 'none'})`);
   }
   const overrides: Record<string, number> = model.parameterNames.includes(expansionParameter) ? { [expansionParameter]: 0 } : {};
   const point = model.at(overrides);
-  if (model.dimension === 0) throw new ClaimInputError('start', 'start: the flow has no couplings, so there is nothing to integrate');
+  if (model.dimension === 0) throw new ClaimInputError(at('start'), `${at('start')}: the flow has no couplings, so there is nothing to integrate`);
 
   const start = new Float64Array(model.dimension);
   for (const name of Object.keys(claim.start)) {
     if (!model.couplings.includes(name)) {
-      throw new ClaimInputError(`start.${name}`, `start.${name}: "${name}" is not a coupling (couplings: ${model.couplings.join(', ')})`);
+      throw new ClaimInputError(at(`start.${name}`), `${at(`start.${name}`)}: "${name}" is not a coupling (couplings: ${model.couplings.join(', ')})`);
     }
   }
   model.couplings.forEach((name, i) => {
     const input = claim.start[name];
-    if (input === undefined) throw new ClaimInputError(`start.${name}`, `start.${name}: missing (the start needs a value for every coupling)`);
-    start[i] = constantValue(model, point, input, `start.${name}`);
+    if (input === undefined) throw new ClaimInputError(at(`start.${name}`), `${at(`start.${name}`)}: missing (the start needs a value for every coupling)`);
+    start[i] = constantValue(model, point, input, at(`start.${name}`));
   });
 
-  const scaling = rateOf(model, point, claim.scaling, 'scaling');
+  const scaling = rateOf(model, point, claim.scaling, at('scaling'));
   if (!(scaling.atZero > 0)) {
     throw new ClaimInputError(
-      'scaling',
-      `scaling: the rate of "${claim.scaling}" at zero couplings is ${scaling.atZero}; the scaling variable must be relevant (a positive rate y_t) so that t(l*) = 1 is reached`,
+      at('scaling'),
+      `${at('scaling')}: the rate of "${claim.scaling}" at zero couplings is ${scaling.atZero}; the scaling variable must be relevant (a positive rate y_t) so that t(l*) = 1 is reached`,
     );
   }
 
@@ -98,16 +100,16 @@ export function readProblem(claim: LogExponentClaim, model: CompiledModel): LogE
   let exactPower: number;
   let observableLabel: string;
   if (typeof claim.observable === 'string') {
-    const rate = rateOf(model, point, claim.observable, 'observable');
+    const rate = rateOf(model, point, claim.observable, at('observable'));
     observable = { kind: 'rate', ...rate };
     exactPower = rate.atZero / scaling.atZero;
     observableLabel = claim.observable;
   } else {
     const entries = Object.entries(claim.observable.integral);
-    if (entries.length === 0) throw new ClaimInputError('observable.integral', 'observable.integral: give at least one rate name with its weight');
+    if (entries.length === 0) throw new ClaimInputError(at('observable.integral'), `${at('observable.integral')}: give at least one rate name with its weight`);
     const weights = entries.map(([name, w]) => {
-      const rate = rateOf(model, point, name, `observable.integral.${name}`);
-      return { name, weight: constantValue(model, point, w, `observable.integral.${name}`), anomalous: rate.anomalous };
+      const rate = rateOf(model, point, name, at(`observable.integral.${name}`));
+      return { name, weight: constantValue(model, point, w, at(`observable.integral.${name}`)), anomalous: rate.anomalous };
     });
     const anomalous = (g: ArrayLike<number>): number => {
       let sum = 0;
@@ -119,8 +121,8 @@ export function readProblem(claim: LogExponentClaim, model: CompiledModel): LogE
     observableLabel = `the integral of exp(${weights.map((w) => `${w.weight} * int (${w.name} - ${w.name}(0))`).join(' + ')})`;
   }
 
-  const claimedValue = claim.value === undefined ? null : constantValue(model, point, claim.value, 'value');
-  const claimedPower = claim.power === undefined ? null : constantValue(model, point, claim.power, 'power');
+  const claimedValue = claim.value === undefined ? null : constantValue(model, point, claim.value, at('value'));
+  const claimedPower = claim.power === undefined ? null : constantValue(model, point, claim.power, at('power'));
   return {
     model,
     point,
