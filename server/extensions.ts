@@ -5,6 +5,7 @@
 //   order, on shutdown (e.g. background jobs). Add an entry here; server/index.ts does the rest.
 import type { IncomingMessage, Server } from 'node:http';
 import type { Duplex } from 'node:stream';
+import { collabService, collabUpgradeRoute } from './collab';
 import type { ServerConfig } from './config';
 
 export interface ServerContext {
@@ -27,6 +28,6 @@ export interface Service {
   stop(): Promise<void> | void;
 }
 
-export const upgradeRoutes: UpgradeRoute[] = [];
+export const upgradeRoutes: UpgradeRoute[] = [collabUpgradeRoute];
 
-export const services: Service[] = [];
+export const services: Service[] = [collabService];

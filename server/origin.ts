@@ -6,3 +6,18 @@ export function appOrigin(headers: Headers): string {
   if (!host) throw new Error('The request has no Host header.');
   return `http://${host}`;
 }
+
+/**
+ * Whether an Origin header names this app (the configured public origin, else the request's own
+ * Host). A missing Origin is not a cross-site request: browsers always send one on websockets and
+ * on mutating requests. Used by the collaboration socket's upgrade.
+ */
+export function isOwnOrigin(origin: string | undefined | null, host: string | undefined | null): boolean {
+  if (!origin) return true;
+  const expected = process.env.NEXTAUTH_URL ? new URL(process.env.NEXTAUTH_URL).host : host;
+  try {
+    return new URL(origin).host === expected;
+  } catch {
+    return false;
+  }
+}
