@@ -29,10 +29,15 @@ export const checkEpsilonCoefficient: FlowCheck<EpsilonCoefficientClaim, Compile
   const sample = (e: number): number | null => {
     const x = tracker.at(e);
     if (!x) return null;
-    const value = model.at({ [parameter]: e }).evaluate(quantity, x);
+    const value = tracker.pointAt(e).evaluate(quantity, x);
     return Number.isFinite(value) ? value : null;
   };
-  const fit = expandAtZero(sample, claim.power, { radius: settings.radius, extraDegree: settings.extraDegree, checkpoint: ctx.checkpoint });
+  const fit = expandAtZero(sample, claim.power, {
+    radius: settings.radius,
+    extraDegree: settings.extraDegree,
+    checkpoint: ctx.checkpoint,
+    goodEnough: ctx.tight ? 0 : tolerance * 1e-2,
+  });
   if (!fit) {
     return {
       status: 'inconclusive',

@@ -91,7 +91,7 @@ function seriesCheck(
     ctx,
   );
   if ('error' in tracker) return { status: 'inconclusive', message: tracker.error, method: 'series check', settings: { ...settings, tolerance } };
-  const claimedAt = (e: number) => evaluatePoint(value, model.at({ [parameter]: e }));
+  const claimedAt = (e: number) => evaluatePoint(value, tracker.pointAt(e));
   const n = model.dimension;
   const powers: NonNullable<Evidence['coefficients']> = [];
   let status: Status = 'holds';
@@ -102,7 +102,7 @@ function seriesCheck(
       const x = tracker.at(e);
       return x ? x[i]! - claimedAt(e)[i]! : null;
     };
-    const fit = expandAtZero(residual, order, { radius: settings.radius, extraDegree: settings.extraDegree, checkpoint: ctx.checkpoint });
+    const fit = expandAtZero(residual, order, { radius: settings.radius, extraDegree: settings.extraDegree, checkpoint: ctx.checkpoint, goodEnough: ctx.tight ? 0 : tolerance * 1e-2 });
     if (!fit) {
       return {
         status: 'inconclusive',
@@ -112,7 +112,13 @@ function seriesCheck(
       };
     }
     evaluations += fit.evaluations;
-    const gstar = expandAtZero((e) => tracker.at(e)?.[i] ?? null, order, { radius: fit.radius, extraDegree: settings.extraDegree, checkpoint: ctx.checkpoint });
+    // g* itself on the same nodes, for display (no further radii).
+    const gstar = expandAtZero((e) => tracker.at(e)?.[i] ?? null, order, {
+      radius: fit.radius,
+      extraDegree: settings.extraDegree,
+      checkpoint: ctx.checkpoint,
+      goodEnough: Number.POSITIVE_INFINITY,
+    });
     for (let k = 0; k <= order; k++) {
       const c = fit.coefficients[k]!;
       const u = fit.uncertainties[k]!;

@@ -164,7 +164,7 @@ export function branchTracker(
   extraAt: ((point: ModelPoint) => Float64Array) | null,
   settings: LocateSettings,
   ctx: CheckContext,
-): { at: (e: number) => Float64Array | null; solves: () => number; scaledGuess: boolean } | { error: string } {
+): { at: (e: number) => Float64Array | null; pointAt: (e: number) => ModelPoint; solves: () => number; scaledGuess: boolean } | { error: string } {
   const e0 = model.parameters[parameter]!;
   const probeA = guessAt(model.at({ [parameter]: 0.011 }));
   const probeB = guessAt(model.at({ [parameter]: 0.023 }));
@@ -181,10 +181,19 @@ export function branchTracker(
   }
   const options = { ...settings, tolerance: settings.newtonTolerance, random: ctx.random, checkpoint: ctx.checkpoint };
   const memo = new Map<number, Float64Array | null>();
+  const points = new Map<number, ModelPoint>();
+  const pointAt = (e: number): ModelPoint => {
+    let point = points.get(e);
+    if (!point) {
+      point = model.at({ [parameter]: e });
+      points.set(e, point);
+    }
+    return point;
+  };
   let solves = 0;
   const at = (e: number): Float64Array | null => {
     if (memo.has(e)) return memo.get(e)!;
-    const point = model.at({ [parameter]: e });
+    const point = pointAt(e);
     const guess = anchor ? anchor.map((x) => (x * e) / e0) : guessAt(point);
     const extra = extraAt ? [extraAt(point)] : [];
     solves++;
@@ -194,5 +203,5 @@ export function branchTracker(
     memo.set(e, x);
     return x;
   };
-  return { at, solves: () => solves, scaledGuess: !varies };
+  return { at, pointAt, solves: () => solves, scaledGuess: !varies };
 }

@@ -23,6 +23,8 @@ export interface SeriesOptions {
   checkpoint?: () => void;
   /** Rounding errors per value, in units of the value's ulp (default 64, for values from an iterative solve). */
   noiseFactor?: number;
+  /** Stop trying smaller radii once the highest coefficient's uncertainty is below this. */
+  goodEnough?: number;
 }
 
 type Sampler = (x: number) => number | null;
@@ -145,6 +147,7 @@ export function expandAtZero(sample: Sampler, maxPower: number, options: SeriesO
       const extra = twoSided ? options.extraDegree : Math.max(4, options.extraDegree - 4);
       const fit = estimate(counted, maxPower, options.radius * shrink, twoSided, extra, cache, options.noiseFactor ?? NOISE_FACTOR);
       if (fit && (!best || fit.uncertainties[maxPower]! < best.uncertainties[maxPower]!)) best = fit;
+      if (best && options.goodEnough !== undefined && best.uncertainties[maxPower]! <= options.goodEnough) break;
     }
     if (best) break;
   }
