@@ -110,8 +110,8 @@ function verdict(measured: number, uncertainty: number, claimed: number, toleran
 const fmt = (v: number, digits = 10): string => (Number.isFinite(v) ? Number(v.toPrecision(digits)).toString() : String(v));
 const fmtTime = (l: number): string => (l >= 1e4 ? l.toExponential(2) : fmt(l, 4));
 
-function runOnce(problem: LogExponentProblem, start: Float64Array, rtol: number, decades: number, deadline: number): ExponentRun {
-  const settings = { rtol, decades, deadline };
+function runOnce(problem: LogExponentProblem, start: Float64Array, rtol: number, decades: number, deadline: number, implicitFrom?: number): ExponentRun {
+  const settings = { rtol, decades, deadline, implicitFrom };
   return problem.model.convention === 'map' ? runMap(problem, start, settings) : runContinuous(problem, start, settings);
 }
 
@@ -315,7 +315,8 @@ export const checkLogExponent: FlowCheck<LogExponentClaim, CompiledModel> = (cla
   ];
   for (const [what, start, tol] of variations) {
     ctx.checkpoint();
-    const run = runOnce(problem, start, tol, decades, deadline);
+    // A flow that proved stiff in the first run is handed to the implicit method where it switched.
+    const run = runOnce(problem, start, tol, decades, deadline, base.switchedAtL);
     runs++;
     evaluations += run.stats.evaluations;
     const est = run.outcome === 'reached' && run.points.length === base.points.length ? estimate(problem, run, centralWindow!) : null;

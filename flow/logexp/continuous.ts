@@ -39,6 +39,8 @@ export interface RunSettings {
   decades: number;
   /** performance.now() deadline. */
   deadline: number;
+  /** RG time from which to use the implicit method at once (where an earlier run switched). */
+  implicitFrom?: number;
 }
 
 /** The vector field the scaled system is built on: the flow itself, or a map's interpolating flow. */
@@ -158,8 +160,17 @@ export function integrateScaled(
   let switchedAtS: number | undefined;
   let switchReason: string | undefined;
   let outcome: ScaledRun['outcome'] = 'reached';
-  for (const target of times) {
+  const sImplicit = settings.implicitFrom === undefined ? Infinity : Math.log1p(settings.implicitFrom);
+  const breaks = [...times, ...(sImplicit > s0 && sImplicit < times[times.length - 1]! ? [sImplicit] : [])].sort((a, b) => a - b);
+  const isOutput = new Set(times);
+  for (const target of breaks) {
     if (target <= s) continue;
+    if (s >= sImplicit && method === 'auto') {
+      method = 'implicit';
+      methodName = methodName.includes('then') ? methodName : `${methodName || 'explicit (odex)'}, then implicit (RODAS4)`;
+      switchedAtS ??= s;
+      switchReason ??= 'stiffness';
+    }
     const result = integrate(rhs, s, y, target, {
       onStep,
       rtol: settings.rtol,
@@ -190,7 +201,7 @@ export function integrateScaled(
       outcome = result.outcome === 'event' ? 'escaped' : decayFailed ? 'no-decay' : result.outcome;
       break;
     }
-    outputs.push({ t: target, y: Float64Array.from(y) });
+    if (isOutput.has(target)) outputs.push({ t: target, y: Float64Array.from(y) });
   }
   return { outputs, outcome, sEnd: s, yEnd: y, method: methodName, switchedAtS, switchReason, stats };
 }
