@@ -68,8 +68,6 @@ describe('log-exponent sanity and bad input', () => {
     const marginality = r.sanity.find((f) => f.check === 'marginality');
     expect(marginality?.ok).toBe(false);
     expect(marginality?.message).toMatch(/marginally relevant/);
-    // The runner's own flag says the same and suggests the convention.
-    expect(r.sanity.find((f) => f.check === 'marginal-sign')?.ok).toBe(false);
   });
 
   it('checks the flow at eps = 0 even when the file declares another eps', () => {
