@@ -155,15 +155,14 @@ function flags(problem: LogExponentProblem, structure: MarginalStructure, base: 
   const gEndMax = Math.max(...Array.from(base.gEnd, Math.abs));
   const gStartMax = Math.max(...Array.from(problem.start, Math.abs));
   const decays = base.outcome !== 'no-decay' && (gEndMax < 1e-3 * gStartMax || gEndMax < 1e-9);
-  if (base.outcome === 'escaped' || base.outcome === 'non-finite') {
-    // The 'finite' flag says it all.
-  } else if (!decays) {
+  const blewUp = base.outcome === 'escaped' || base.outcome === 'non-finite';
+  if (!blewUp && !decays) {
     out.push({
       check: 'asymptote',
       ok: false,
       message: `the couplings do not flow to zero (at ${time} ${fmtTime(base.lastL)}: ${names.map((name, i) => `${name} = ${fmt(base.gEnd[i]!, 6)}`).join(', ')}), so there is no marginal regime`,
     });
-  } else if (pts.length >= 2) {
+  } else if (!blewUp && pts.length >= 2) {
     const lastPt = pts[pts.length - 1]!;
     const last = lastPt.lg;
     const before = pts[pts.length - 2]!.lg;

@@ -30,6 +30,8 @@ export interface MarginalStructure {
 
 const ZERO_TOLERANCE = 1e-12;
 
+const short = (v: number): string => Number(v.toPrecision(10)).toString();
+
 function maxAbs(values: ArrayLike<number>): number {
   let m = 0;
   for (let i = 0; i < values.length; i++) m = Math.max(m, Math.abs(values[i]!));
@@ -145,7 +147,7 @@ export function marginalStructure(problem: LogExponentProblem): MarginalStructur
   if (maxAbs(linear) <= ZERO_TOLERANCE) {
     if (n === 1 && hessian) {
       const b = -hessian(Float64Array.of(1))[0]! / 2;
-      return { kind: 'single', linear, atZero, hessian, v: Float64Array.of(1), u: Float64Array.of(1), b, description: `d${names[0]}/dl = ${(-b).toPrecision(8)} ${names[0]}^2 + ... at zero couplings` };
+      return { kind: 'single', linear, atZero, hessian, v: Float64Array.of(1), u: Float64Array.of(1), b, description: `d${names[0]}/dl = ${short(-b)} ${names[0]}^2 + ... at zero couplings` };
     }
     return { kind: 'all', linear, atZero, hessian, description: `every coupling (${names.join(', ')}) is marginal at zero couplings` };
   }
@@ -165,7 +167,7 @@ export function marginalStructure(problem: LogExponentProblem): MarginalStructur
   for (let i = 0; i < n; i++) u[i]! /= uv;
   if (dot(u, start) < 0) for (let i = 0; i < n; i++) (v[i]! *= -1), (u[i]! *= -1);
   const b = hessian ? -dot(u, hessian(v)) / 2 : undefined;
-  const direction = names.map((name, i) => `${v[i]!.toPrecision(6)} ${name}`).join(' + ');
+  const direction = names.map((name, i) => `${short(v[i]!)} ${name}`).join(' + ');
   return {
     kind: 'single',
     linear,
@@ -174,7 +176,7 @@ export function marginalStructure(problem: LogExponentProblem): MarginalStructur
     v,
     u,
     b,
-    description: `one marginal direction at zero couplings (${direction})${b === undefined ? '' : `, d xi/dl = ${(-b).toPrecision(8)} xi^2 + ...`}`,
+    description: `one marginal direction at zero couplings (${direction})${b === undefined ? '' : `, d xi/dl = ${short(-b)} xi^2 + ...`}`,
   };
 }
 

@@ -97,6 +97,17 @@ describe('log exponents of discrete RG maps', () => {
     direct.forEach((value, k) => expect(Math.abs(points[k]![1] - value)).toBeLessThan(1e-9));
   });
 
+  it('measures p = 2 and x = 3 for g\' = g - g^2/2 with rates 1 - g and 3 - 2g', () => {
+    // b = 1/2, y_t = 1, c_t = 1, y_O = 3, c_O = 2: p = (y_O c_t / y_t - c_O) / b = 2, x = y_O / y_t = 3
+    // (leading-order rule with RG time counted in steps, common practice).
+    const flow: FlowSpec = { couplings: ['g'], parameters: { b: 0.5 }, convention: 'map', beta: { g: 'g - b*g^2' }, rates: { t: '1 - g', O: '3 - 2*g' } };
+    const r = checkOne(flow, { scaling: 't', observable: 'O', start: { g: 0.4 }, value: 2, power: 3 });
+    expect(r.status).toBe('holds');
+    expect(Math.abs(measuredP(r) - 2)).toBeLessThan(1e-8);
+    const wrong = checkOne(flow, { scaling: 't', observable: 'O', start: { g: 0.4 }, value: 2.001 });
+    expect(wrong.status).toBe('fails');
+  });
+
   it('measures the exponent of a rate with a quadratic anomalous part', () => {
     // rate_m = 1 - g/2 + g^2: y_O = 1, c_O = 1/2, x = 1/2, c_t = 1, b = 1, so p = (1/2 - 1/2) / 1 = 0.
     const r = checkOne(exactMap, { scaling: 't', observable: 'm', start: { g: 0.5 }, value: 0, power: 0.5 });
