@@ -96,6 +96,9 @@ function claimSettingsReader(claim: Claim, index: number) {
 }
 
 function finish(outcome: CheckOutcome, id: string, kind: string, ms: number, extraSanity: SanityFlag[]): ClaimResult {
+  // A check that judges marginality itself (along its own start) replaces the generic flag.
+  const own = outcome.sanity ?? [];
+  const general = own.some((flag) => flag.check === 'marginality') ? extraSanity.filter((flag) => flag.check !== 'marginal-sign') : extraSanity;
   return {
     id,
     kind,
@@ -109,7 +112,7 @@ function finish(outcome: CheckOutcome, id: string, kind: string, ms: number, ext
     settings: outcome.settings ?? {},
     stats: outcome.stats ?? {},
     ms,
-    sanity: [...extraSanity, ...(outcome.sanity ?? [])],
+    sanity: [...general, ...own],
     evidence: outcome.evidence ?? {},
   };
 }

@@ -143,7 +143,7 @@ export function locate(
       status: definite ? 'fails' : 'inconclusive',
       message: definite
         ? `no fixed point near ${near}: the real fixed points are ${complexSearch!.real!.map((r) => fmt(r)).join(', ')} (polynomial roots)`
-        : `Newton found no fixed point near ${near} from ${search.starts} starts.${elsewhere}`,
+        : `Newton found no fixed point near ${near} from ${search.starts} starts.${elsewhere}${model.dimension > 1 ? ' (Complex fixed points are searched for one coupling only.)' : ''}`,
       method: 'Newton from several starts',
       stats,
       sanity,
