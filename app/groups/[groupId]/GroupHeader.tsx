@@ -3,7 +3,7 @@ import Link from 'next/link';
 import { Loading, Notice } from '@/components/ui';
 import { useGroup } from './useGroup';
 
-export function GroupHeader({ groupId, current }: { groupId: string; current: 'derivations' | 'members' }) {
+export function GroupHeader({ groupId, current }: { groupId: string; current: 'derivations' | 'datasets' | 'members' }) {
   const group = useGroup(groupId);
   if (group.isPending) return <Loading what="the group" />;
   if (group.error) return <Notice kind="error">{group.error.message}</Notice>;
@@ -23,6 +23,7 @@ export function GroupHeader({ groupId, current }: { groupId: string; current: 'd
       {group.data.description && <p className="mt-2 max-w-3xl text-lg text-ink-soft">{group.data.description}</p>}
       <nav aria-label="Group" className="mt-5 flex gap-6 border-b border-rule">
         {tab('derivations', `/groups/${groupId}`, 'Derivations')}
+        {tab('datasets', `/groups/${groupId}/datasets`, 'Datasets')}
         {tab('members', `/groups/${groupId}/members`, 'Members')}
       </nav>
     </header>

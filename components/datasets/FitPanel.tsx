@@ -1,0 +1,230 @@
+'use client';
+// A dataset drawn with its error bars and fitted to A x^a |ln x|^p: each exponent held at a value
+// or left free, the fitted values with their uncertainties and the goodness of fit, and whether
+// the data agree with a claimed exponent within their errors. All numerics come from flow/fit.ts.
+import { useMemo, useState } from 'react';
+import { agreesWithExponent, evaluateFit, fitPowerLog, FitInputError, type ExponentAgreement, type PowerLogFit } from '@/flow/fit';
+import { StatusWord, type CheckStatus } from '../StatusWord';
+import { DataPlot, sampleCurve, type Curve, type DataPoint } from './DataPlot';
+
+export interface SeriesInput {
+  name: string;
+  x: { quantity: string; unit: string; values: number[] };
+  y: { quantity: string; unit: string; values: number[] };
+  sigma: { values: number[] } | null;
+}
+
+/** Most points a plot draws; the fit always uses every point. */
+const MAX_DRAWN = 2000;
+
+const label = (axis: { quantity: string; unit: string }) => (axis.unit ? `${axis.quantity} [${axis.unit}]` : axis.quantity);
+
+export function formatNumber(v: number, digits = 4): string {
+  if (!Number.isFinite(v)) return String(v);
+  const a = Math.abs(v);
+  return a !== 0 && (a >= 1e5 || a < 1e-3) ? v.toExponential(digits - 1) : String(Number(v.toPrecision(digits)));
+}
+
+function ValueWithError({ value, uncertainty, held }: { value: number; uncertainty: number; held: boolean }) {
+  if (held) return <span className="font-mono">{formatNumber(value, 6)} (held)</span>;
+  return (
+    <span className="font-mono">
+      {formatNumber(value, 6)} ± {formatNumber(uncertainty, 2)}
+    </span>
+  );
+}
+
+interface ExponentChoice {
+  free: boolean;
+  value: string;
+}
+
+function ExponentControl({ name, words, choice, onChange }: { name: 'a' | 'p'; words: string; choice: ExponentChoice; onChange: (c: ExponentChoice) => void }) {
+  return (
+    <fieldset className="flex flex-wrap items-center gap-3">
+      <legend className="text-sm font-semibold tracking-wide text-ink-soft">
+        {name} ({words})
+      </legend>
+      <label className="inline-flex items-center gap-1">
+        <input type="radio" name={`fit-${name}`} checked={choice.free} onChange={() => onChange({ ...choice, free: true })} /> free
+      </label>
+      <label className="inline-flex items-center gap-1">
+        <input type="radio" name={`fit-${name}`} checked={!choice.free} onChange={() => onChange({ ...choice, free: false })} /> held at
+      </label>
+      <input
+        aria-label={`held value of ${name}`}
+        className="w-24 rounded border border-rule bg-white/70 px-2 py-0.5 font-mono"
+        value={choice.value}
+        onChange={(e) => onChange({ free: false, value: e.target.value })}
+      />
+    </fieldset>
+  );
+}
+
+const verdictLook: Record<ExponentAgreement['verdict'], { status: CheckStatus; words: (claim: string) => string }> = {
+  agrees: { status: 'holds', words: (claim) => `The data agree with ${claim}` },
+  disagrees: { status: 'fails', words: (claim) => `The data disagree with ${claim}` },
+  undetermined: { status: 'inconclusive', words: (claim) => `No verdict on ${claim}` },
+};
+
+export function AgreementVerdict({ agreement }: { agreement: ExponentAgreement }) {
+  const look = verdictLook[agreement.verdict];
+  return (
+    <div className="flex flex-col gap-1" data-testid="agreement" data-verdict={agreement.verdict}>
+      <StatusWord status={look.status} label={look.words(`${agreement.parameter} = ${formatNumber(agreement.claimed, 6)}`)} />
+      <p className="text-ink-soft">{agreement.reason}</p>
+    </div>
+  );
+}
+
+export function FitPanel({ series, predictions = [] }: { series: SeriesInput; predictions?: Curve[] }) {
+  const n = series.x.values.length;
+  const positive = series.x.values.every((v) => v > 0) && series.y.values.every((v) => v > 0);
+  const span = (values: number[]) => Math.max(...values) / Math.min(...values);
+  const [logX, setLogX] = useState(positive && span(series.x.values) > 20);
+  const [logY, setLogY] = useState(positive && span(series.y.values) > 20);
+  const [a, setA] = useState<ExponentChoice>({ free: true, value: '1' });
+  const [p, setP] = useState<ExponentChoice>({ free: false, value: '0' });
+  const [claim, setClaim] = useState<{ parameter: 'a' | 'p'; value: string }>({ parameter: 'p', value: '0.25' });
+
+  const data = useMemo(
+    () => ({ x: series.x.values, y: series.y.values, sigma: series.sigma?.values ?? null }),
+    [series],
+  );
+
+  const held = (c: ExponentChoice): number | null | 'bad' => {
+    if (c.free) return null;
+    const v = Number(c.value);
+    return c.value.trim() !== '' && Number.isFinite(v) ? v : 'bad';
+  };
+
+  const fit = useMemo((): { fit: PowerLogFit } | { error: string } => {
+    const heldA = held(a);
+    const heldP = held(p);
+    if (heldA === 'bad' || heldP === 'bad') return { error: 'A held exponent must be a number.' };
+    try {
+      return { fit: fitPowerLog(data, { a: heldA, p: heldP }) };
+    } catch (error) {
+      if (error instanceof FitInputError) return { error: error.message };
+      throw error;
+    }
+  }, [data, a, p]);
+
+  const agreement = useMemo((): { result: ExponentAgreement } | { error: string } | null => {
+    const claimed = Number(claim.value);
+    if (claim.value.trim() === '' || !Number.isFinite(claimed)) return { error: 'The claimed exponent must be a number.' };
+    const otherChoice = claim.parameter === 'a' ? p : a;
+    const other = held(otherChoice);
+    if (other === 'bad') return { error: 'A held exponent must be a number.' };
+    try {
+      return { result: agreesWithExponent(data, claim.parameter, claimed, { other }) };
+    } catch (error) {
+      if (error instanceof FitInputError) return { error: error.message };
+      throw error;
+    }
+  }, [data, claim, a, p]);
+
+  const points = useMemo<DataPoint[]>(() => {
+    const step = Math.max(1, Math.ceil(n / MAX_DRAWN));
+    const out: DataPoint[] = [];
+    for (let i = 0; i < n; i += step) out.push({ x: series.x.values[i]!, y: series.y.values[i]!, sigma: series.sigma?.values[i] ?? null });
+    return out;
+  }, [series, n]);
+
+  const curves = useMemo<Curve[]>(() => {
+    const out = [...predictions];
+    if ('fit' in fit) {
+      const xs = series.x.values;
+      const from = Math.min(...xs);
+      const to = Math.max(...xs);
+      out.push({ name: 'fit', kind: 'fit', points: sampleCurve((x) => evaluateFit(fit.fit, x), from, to, logX && from > 0) });
+    }
+    return out;
+  }, [fit, predictions, series, logX]);
+
+  return (
+    <div className="flex flex-col gap-4">
+      <div className="flex flex-wrap gap-5 text-base">
+        <label className="inline-flex items-center gap-1">
+          <input type="checkbox" checked={logX} disabled={!positive} onChange={(e) => setLogX(e.target.checked)} /> logarithmic x
+        </label>
+        <label className="inline-flex items-center gap-1">
+          <input type="checkbox" checked={logY} disabled={!positive} onChange={(e) => setLogY(e.target.checked)} /> logarithmic y
+        </label>
+      </div>
+      <DataPlot points={points} curves={curves} dataName={series.name} xLabel={label(series.x)} yLabel={label(series.y)} logX={logX} logY={logY} />
+      {points.length < n && (
+        <p className="text-sm text-ink-faint">
+          Drawn: every {Math.ceil(n / MAX_DRAWN)}th of {n.toLocaleString('en-GB')} points; the fit uses them all.
+        </p>
+      )}
+
+      <section aria-label="Fit" className="rounded border border-rule bg-white/40 p-4">
+        <h3 className="mb-2 text-xl">
+          Fit to <span className="font-mono text-lg">A x^a |ln x|^p</span>
+        </h3>
+        <div className="mb-3 flex flex-wrap gap-8">
+          <ExponentControl name="a" words="power of x" choice={a} onChange={setA} />
+          <ExponentControl name="p" words="power of |ln x|" choice={p} onChange={setP} />
+        </div>
+        {'error' in fit ? (
+          <p role="alert" className="text-verdict-fails">
+            {fit.error}
+          </p>
+        ) : (
+          <dl className="grid grid-cols-[12rem_1fr] gap-x-4 gap-y-1" data-testid="fit-result">
+            <dt className="text-ink-soft">A</dt>
+            <dd>
+              <ValueWithError {...fit.fit.A} />
+            </dd>
+            <dt className="text-ink-soft">a</dt>
+            <dd data-testid="fit-a">
+              <ValueWithError {...fit.fit.a} />
+            </dd>
+            <dt className="text-ink-soft">p</dt>
+            <dd data-testid="fit-p">
+              <ValueWithError {...fit.fit.p} />
+            </dd>
+            <dt className="text-ink-soft">χ² / degrees of freedom</dt>
+            <dd className="font-mono">
+              {formatNumber(fit.fit.chi2)} / {fit.fit.dof}
+              {fit.fit.dof > 0 && ` = ${formatNumber(fit.fit.reducedChi2, 3)}`}
+            </dd>
+            <dt className="text-ink-soft">p-value</dt>
+            <dd>{fit.fit.pValue === null ? <span className="text-ink-faint">none: the data carry no error bars</span> : <span className="font-mono">{formatNumber(fit.fit.pValue, 3)}</span>}</dd>
+            <dt className="text-ink-soft">Method</dt>
+            <dd className="text-ink-soft">
+              {fit.fit.scale === 'linear' ? 'least squares in y weighted by the error bars' : 'least squares in ln y'}, {fit.fit.points} points;
+              uncertainties {fit.fit.weighted ? 'from the error bars' : 'from the scatter'} (covariance matrix)
+              {!fit.fit.converged && <strong className="text-verdict-unsure"> — the iteration did not settle</strong>}
+            </dd>
+          </dl>
+        )}
+      </section>
+
+      <section aria-label="Claimed exponent" className="rounded border border-rule bg-white/40 p-4">
+        <h3 className="mb-2 text-xl">Do the data agree with a claimed exponent?</h3>
+        <div className="mb-3 flex flex-wrap items-center gap-3">
+          <label className="inline-flex items-center gap-2">
+            exponent
+            <select
+              className="rounded border border-rule bg-white/70 px-2 py-0.5"
+              value={claim.parameter}
+              onChange={(e) => setClaim({ ...claim, parameter: e.target.value as 'a' | 'p' })}
+            >
+              <option value="a">a (power of x)</option>
+              <option value="p">p (power of |ln x|)</option>
+            </select>
+          </label>
+          <label className="inline-flex items-center gap-2">
+            claimed value
+            <input className="w-24 rounded border border-rule bg-white/70 px-2 py-0.5 font-mono" value={claim.value} onChange={(e) => setClaim({ ...claim, value: e.target.value })} />
+          </label>
+          <span className="text-sm text-ink-faint">the other exponent as set for the fit above</span>
+        </div>
+        {agreement && ('error' in agreement ? <p role="alert" className="text-verdict-fails">{agreement.error}</p> : <AgreementVerdict agreement={agreement.result} />)}
+        <p className="mt-2 text-sm text-ink-faint">A fit is evidence, not a proof: it tests the data against the law within their stated errors.</p>
+      </section>
+    </div>
+  );
+}
