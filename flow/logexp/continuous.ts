@@ -64,8 +64,8 @@ export interface ScaledRun {
   stats: IntegrateStats;
 }
 
-/** The implicit method runs 100 times looser than the explicit one (at most 1e-5). */
-const implicitRtol = (rtol: number): number => Math.min(1e-5, Math.max(rtol, 100 * rtol));
+/** The implicit method runs 1000 times looser than the explicit one (at most 1e-5). */
+const implicitRtol = (rtol: number): number => Math.min(1e-5, Math.max(rtol, 1000 * rtol));
 
 const gradientCache = new WeakMap<CompiledModel, Map<string, ScalarFunction[] | null>>();
 
