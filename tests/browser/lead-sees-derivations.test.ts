@@ -84,3 +84,25 @@ test('a title that is too long is refused next to the field, and nothing is adde
   await table.waitFor();
   expect(await table.locator('tbody tr').count()).toBe(before);
 });
+
+test('the lead renames a derivation in place and deletes another after confirming', async () => {
+  const table = page.getByRole('table', { name: 'Derivations of this group' });
+  const row = table.getByRole('row').filter({ hasText: 'Anomalous dimension at two loops' });
+  await row.getByRole('button', { name: 'Rename' }).click();
+  // The row turns into a small form while renaming.
+  const form = page.getByRole('form', { name: 'Rename Anomalous dimension at two loops' });
+  await form.getByLabel('New title').fill('Anomalous dimension of the field at two loops');
+  await form.getByRole('button', { name: 'Save title' }).click();
+  await table.getByRole('link', { name: 'Anomalous dimension of the field at two loops' }).waitFor();
+
+  const renamed = table.getByRole('row').filter({ hasText: 'Anomalous dimension of the field at two loops' });
+  await renamed.getByRole('button', { name: 'Delete' }).click();
+  await renamed.getByRole('button', { name: 'Keep it' }).click();
+  expect(await table.getByRole('link', { name: 'Anomalous dimension of the field at two loops' }).count()).toBe(1);
+  await renamed.getByRole('button', { name: 'Delete' }).click();
+  await renamed.getByRole('group', { name: 'Confirm deletion' }).getByRole('button', { name: 'Delete' }).click();
+  await expect.poll(() => table.getByRole('link', { name: 'Anomalous dimension of the field at two loops' }).count()).toBe(0);
+  await page.reload();
+  await table.getByRole('link', { name: demoDerivationTitle }).waitFor();
+  expect(await table.locator('tbody tr').count()).toBe(1);
+});
