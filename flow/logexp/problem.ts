@@ -88,6 +88,9 @@ export function readProblem(claim: LogExponentClaim, model: CompiledModel, where
     start[i] = constantValue(model, point, input, at(`start.${name}`));
   });
 
+  if (start.every((v) => v === 0)) {
+    throw new ClaimInputError(at('start'), `${at('start')}: every coupling is zero, so the flow stays at the Gaussian fixed point and has no log correction to measure`);
+  }
   const scaling = rateOf(model, point, claim.scaling, at('scaling'));
   if (!(scaling.atZero > 0)) {
     throw new ClaimInputError(

@@ -81,6 +81,7 @@ describe('log-exponent sanity and bad input', () => {
     const flow = onFlow(1);
     const cases: [Record<string, unknown>, RegExp][] = [
       [{ scaling: 't', observable: 'chi', start: {}, value: 0.3 }, /start\.g: missing/],
+      [{ scaling: 't', observable: 'chi', start: { g: 0 }, value: 0.3 }, /start: every coupling is zero/],
       [{ scaling: 't', observable: 'chi', start: { g: 0.3, h: 1 }, value: 0.3 }, /start\.h: "h" is not a coupling/],
       [{ scaling: 'T', observable: 'chi', start: { g: 0.3 }, value: 0.3 }, /scaling: "T" is not a rate of this flow \(rates: t, chi, xi\)/],
       [{ scaling: 't', observable: 'chi', start: { g: 0.3 } }, /value: missing/],
