@@ -13,7 +13,7 @@ import type { CheckOutcome, FlowCheck, LogExponentClaim, PlotData, SanityFlag, S
 import { ClaimInputError } from './errors';
 import { readProblem, type LogExponentProblem } from './logexp/problem';
 import { leadingOrder, marginalRay, marginalStructure, type LeadingOrder, type MarginalStructure } from './logexp/analytic';
-import { runContinuous, type DecadePoint } from './logexp/continuous';
+import { runContinuous } from './logexp/continuous';
 import { runMap } from './logexp/map';
 import type { ExponentRun } from './logexp/run';
 import { LOG_CORRECTION_BASIS, leastSquares } from './logexp/fit';
@@ -128,7 +128,7 @@ function leading(problem: LogExponentProblem, structure: MarginalStructure, run:
   return null;
 }
 
-function flags(problem: LogExponentProblem, structure: MarginalStructure, base: ExponentRun, lo: LeadingOrder | null, decades: number): SanityFlag[] {
+function flags(problem: LogExponentProblem, structure: MarginalStructure, base: ExponentRun, lo: LeadingOrder | null): SanityFlag[] {
   const out: SanityFlag[] = [];
   const isMap = problem.model.convention === 'map';
   const time = isMap ? 'step' : 'RG time';
@@ -258,7 +258,7 @@ export const checkLogExponent: FlowCheck<LogExponentClaim, CompiledModel> = (cla
         ? '; fit with the corrections to second order'
         : `; fit p + b/l + a ln(l)/l over the last ${window} decades`;
   const lo = leading(problem, structure, base);
-  const sanity = flags(problem, structure, base, lo, decades);
+  const sanity = flags(problem, structure, base, lo);
   const stats: SettingsRecord = {
     steps: base.stats.steps,
     accepted: base.stats.accepted,
