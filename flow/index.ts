@@ -7,3 +7,13 @@ export { checkClaims, checkClaimsAsync, checkClaimFile, DEFAULT_TIME_LIMIT_MS, t
 export { parseClaimFile, parseClaim, type FileParse, type ClaimParse } from './claimFile';
 export { compileModel, type CompiledModel, type ModelPoint, type RateFunctions, type CompiledQuantity, type TaylorTarget } from './model';
 export { ExpressionError, ClaimInputError, CheckStopped } from './errors';
+export {
+  traceTrajectory,
+  type Trajectory,
+  type TrajectoryBranch,
+  type TrajectoryEnd,
+  type TrajectoryOptions,
+  type TrajectoryPoint,
+  type TrajectoryResult,
+} from './trajectory';
+export { integrate, type IntegrateOptions, type IntegrateResult, type Rhs, type Jacobian } from './ode';
