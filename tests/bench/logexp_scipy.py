@@ -4,8 +4,9 @@ check it by hand with SciPy: solve_ivp on the infrared flow in s = ln(1 + l), th
 exponent from the rates at every decade of RG time, a least-squares fit of p + b/l + a ln(l)/l,
 and the same variations (start, tolerance, window) for the uncertainty.
 
-Usage: logexp_scipy.py [repeats]  -- prints one JSON line per case with p, its uncertainty and
-the median wall time of one extraction in milliseconds (imports and start-up excluded).
+Usage: logexp_scipy.py [repeats] [observable:n ...]  (observable chi or heat; default: chi and
+heat for n = 0..4) -- prints one JSON line per case with p, its uncertainty and the median wall
+time of one extraction in milliseconds (imports and start-up excluded).
 """
 import json
 import math
@@ -87,7 +88,9 @@ def extract(n, observable, g0=0.3, rtol=1e-10, scale=1.5):
 
 def main():
     repeats = int(sys.argv[1]) if len(sys.argv) > 1 else 5
-    cases = [('chi', n) for n in range(5)] + [('heat', n) for n in range(5)]
+    cases = [(c.split(':')[0], int(c.split(':')[1])) for c in sys.argv[2:]]
+    if not cases:
+        cases = [('chi', n) for n in range(5)] + [('heat', n) for n in range(5)]
     for observable, n in cases:
         times = []
         for _ in range(repeats):
