@@ -285,7 +285,9 @@ export const checkLogExponent: FlowCheck<LogExponentClaim, CompiledModel> = (cla
         ? `the flow from the start escapes to infinity at ${where}; no log correction can be measured from this start`
         : base.outcome === 'deadline'
           ? `the integration reached the time bound at ${where}`
-          : `the integration stopped (${base.outcome}) at ${where}`;
+          : base.outcome === 'reached'
+            ? `the run gave only ${base.points.length} decades of RG time, too few to extrapolate`
+            : `the integration stopped (${base.outcome}) at ${where}`;
     if (base.outcome === 'escaped') values['RG time of escape'] = base.lastL;
     return { status: 'inconclusive', message: reason, method, expected, tolerance, settings: settingsRecord, stats, sanity, evidence: { values } };
   }
@@ -366,9 +368,10 @@ export const checkLogExponent: FlowCheck<LogExponentClaim, CompiledModel> = (cla
   const measured =
     problem.claimedValue !== null && problem.claimedPower !== null ? { p, x } : problem.claimedPower !== null ? x : p;
   const uncertainty = problem.claimedValue !== null ? uncertaintyP : uncertaintyX;
+  const skippedText = skipped.length ? `. Variations left out: ${skipped.join('; ')}` : '';
   return {
     status,
-    message: parts.join('. '),
+    message: parts.join('. ') + skippedText,
     method,
     measured,
     uncertainty,
