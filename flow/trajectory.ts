@@ -24,7 +24,7 @@ export interface TrajectoryOptions {
   maxTime?: number;
   /** Samples per direction, spaced for the axis (default 300). */
   samples?: number;
-  /** Spacing of the samples: uniform in l, or in ln(1 + |l|) for a logarithmic axis (default 'log'). */
+  /** Spacing of the samples: uniform in l, or in ln|l| from 1e-3 on for a logarithmic axis (default 'log'). */
   axis?: 'linear' | 'log';
   /** |g| beyond this counts as escape to infinity (default 1e6). */
   escape?: number;
@@ -93,12 +93,14 @@ const named = (model: CompiledModel, g: ArrayLike<number>): Record<string, numbe
   return out;
 };
 
-/** Sample times from 0 to `to` (either sign), uniform in l or in ln(1 + |l|). */
+/** Sample times from 0 to `to` (either sign), uniform in l, or in ln|l| from |l| = 1e-3 on. */
 function sampleTimes(to: number, samples: number, axis: 'linear' | 'log'): number[] {
   const sign = Math.sign(to);
+  const span = Math.abs(to);
+  const first = Math.min(1e-3, span / 1e3);
   const out: number[] = [];
   for (let k = 1; k < samples; k++) {
-    out.push(axis === 'linear' ? (to * k) / samples : sign * Math.expm1((k / samples) * Math.log1p(Math.abs(to))));
+    out.push(axis === 'linear' ? (to * k) / samples : sign * first * Math.pow(span / first, (k - 1) / (samples - 1)));
   }
   out.push(to);
   return out;
