@@ -53,25 +53,34 @@ function counted(body: ReadableStream<Uint8Array>, limit: number, onOver: () => 
   });
 }
 
-/** The form's file and validated description, or the Response that refuses it. */
-export async function readDatasetForm(req: Request): Promise<DatasetForm | Response> {
+/**
+ * A multipart form read through a byte counter: null when the body is larger than `limit` bytes
+ * (declared or counted), the form otherwise. Shared by every upload route.
+ */
+export async function readCappedForm(req: Request, limit: number, what = 'the upload'): Promise<FormData | null> {
   const type = req.headers.get('content-type') ?? '';
   if (!type.toLowerCase().startsWith('multipart/form-data')) {
-    throw badRequest('Send the dataset as a form upload (multipart/form-data) with the file and its description.', 'file');
+    throw badRequest(`Send ${what} as a form upload (multipart/form-data).`, 'file');
   }
   const declared = Number(req.headers.get('content-length'));
-  if (Number.isFinite(declared) && declared > MAX_DATASET_BYTES + FORM_OVERHEAD_BYTES) return tooLarge(declared);
+  if (Number.isFinite(declared) && declared > limit) return null;
   if (!req.body) throw badRequest('Choose a file to upload.', 'file');
-
   let over = false;
-  let form: FormData;
   try {
-    const body = counted(req.body, MAX_DATASET_BYTES + FORM_OVERHEAD_BYTES, () => (over = true));
-    form = await new Response(body, { headers: { 'content-type': type } }).formData();
+    const body = counted(req.body, limit, () => (over = true));
+    return await new Response(body, { headers: { 'content-type': type } }).formData();
   } catch {
-    if (over) return tooLarge(null);
-    throw badRequest('The upload could not be read as a form.', 'file');
+    if (over) return null;
+    throw badRequest(`${what[0]!.toUpperCase()}${what.slice(1)} could not be read as a form.`, 'file');
   }
+}
+
+/** The form's file and validated description, or the Response that refuses it. */
+export async function readDatasetForm(req: Request): Promise<DatasetForm | Response> {
+  const declared = Number(req.headers.get('content-length'));
+  const cap = MAX_DATASET_BYTES + FORM_OVERHEAD_BYTES;
+  const form = await readCappedForm(req, cap, 'the dataset');
+  if (!form) return tooLarge(Number.isFinite(declared) && declared > cap ? declared : null);
 
   const file = form.get('file');
   if (!(file instanceof Blob)) throw badRequest('Choose a file to upload.', 'file');

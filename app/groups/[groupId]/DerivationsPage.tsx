@@ -198,10 +198,13 @@ function NewDerivationForm({ groupId }: { groupId: string }) {
       <form onSubmit={form.handleSubmit((v) => create.mutate(v))} noValidate className="flex max-w-xl flex-col gap-3" aria-label="New derivation">
         {errors.root?.server && <Notice kind="error">{errors.root.server.message}</Notice>}
         <TextField id="new-derivation-title" label="Title" error={errors.title?.message} {...form.register('title')} />
-        <div>
+        <div className="flex items-center gap-4">
           <Button type="submit" busy={create.isPending}>
             Create derivation
           </Button>
+          <Link href={`/groups/${groupId}/import`} className="text-accent hover:underline">
+            or import a LaTeX file
+          </Link>
         </div>
       </form>
     </Section>
