@@ -215,3 +215,38 @@ export const documentSnapshots = pgTable('document_snapshots', {
   state: bytes('state').notNull(),
   createdAt: createdAt(),
 });
+
+// ---- checks: the server's latest verdict on every claim of a derivation's working copy ---------
+
+export const checkStatuses = ['holds', 'fails', 'inconclusive', 'invalid'] as const;
+export type CheckStatus = (typeof checkStatuses)[number];
+export const checkStatus = pgEnum('check_status', checkStatuses);
+
+/**
+ * The latest server-side check of each claim block (by its stepId) of a derivation's working
+ * copy, written by the background re-check after edits. `inputHash` identifies what was checked
+ * (the claim and its flow), so an unchanged claim is not checked again; `previousStatus` and
+ * `statusSince` record the last change of verdict. Rows of claims no longer in the document are
+ * removed by the run that no longer finds them; the derivation's claim counts are written in the
+ * same transaction.
+ */
+export const claimChecks = pgTable(
+  'claim_checks',
+  {
+    derivationId: uuid('derivation_id').notNull().references(() => derivations.id, { onDelete: 'cascade' }),
+    stepId: text('step_id').notNull(),
+    /** The claim's id in the claim file (its name, or one made from its step). */
+    claimId: text('claim_id').notNull(),
+    kind: text('kind').notNull(),
+    /** The flow block it was checked against; null for claims without a flow. */
+    flowStepId: text('flow_step_id'),
+    status: checkStatus('status').notNull(),
+    previousStatus: checkStatus('previous_status'),
+    statusSince: timestamp('status_since', { withTimezone: true }).notNull().defaultNow(),
+    inputHash: text('input_hash').notNull(),
+    /** The solver's whole result (flow/ ClaimResult): measured value, evidence, settings, time. */
+    result: jsonb('result').notNull(),
+    checkedAt: timestamp('checked_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.derivationId, t.stepId] })],
+);
