@@ -64,7 +64,7 @@ export class CollabHub implements CollabAccess {
     this.wss = new WebSocketServer({ noServer: true, maxPayload: limits.maxMessageBytes * 2 + 1024, perMessageDeflate: false });
     this.writer = new UpdateWriter<Queued>({
       append: appendUpdates,
-      onCommitted: (batch, appended) => this.committed(batch, appended),
+      onCommitted: (batch) => this.committed(batch),
       onFailure: (error, attempt) => {
         console.error(`collab: storing ${this.writer.pending} document updates failed (attempt ${attempt}); retrying:`, error);
         // Clients keep their edits; past a few attempts tell them, so the page says so.
@@ -207,9 +207,7 @@ export class CollabHub implements CollabAccess {
     return this.rooms.size;
   }
 
-  private committed(batch: readonly { tag: Queued }[], appended: readonly { derivationId: string; seq: number }[]): void {
-    const lastSeq = new Map<string, number>();
-    for (const row of appended) lastSeq.set(row.derivationId, Math.max(lastSeq.get(row.derivationId) ?? 0, row.seq));
+  private committed(batch: readonly { tag: Queued }[]): void {
     const byRoom = new Map<Room, AppliedUpdate[]>();
     for (const { tag } of batch) {
       const list = byRoom.get(tag.room);
@@ -217,7 +215,7 @@ export class CollabHub implements CollabAccess {
       else byRoom.set(tag.room, [tag.applied]);
     }
     for (const [room, items] of byRoom) {
-      room.committed(items, lastSeq.get(room.derivationId) ?? room.lastSeq);
+      room.committed(items);
       const userIds = [...new Set(items.map((item) => item.userId).filter((id): id is string => id !== null))];
       for (const userId of userIds) this.activity.note(room.derivationId, userId);
       if (room.updatesSinceSnapshot >= this.limits.snapshotEvery) void room.compact();

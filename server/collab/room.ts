@@ -68,8 +68,6 @@ export class Room {
   readonly body: Y.XmlFragment = this.doc.getXmlFragment(bodyField);
   readonly awareness = new Awareness(this.doc);
   readonly peers = new Set<Peer>();
-  /** Sequence number of the last committed update of this document. */
-  lastSeq: number;
   /** Committed updates not yet covered by the snapshot. */
   updatesSinceSnapshot: number;
   unloadTimer: NodeJS.Timeout | null = null;
@@ -92,7 +90,6 @@ export class Room {
       if (stored.snapshot) Y.applyUpdate(this.doc, stored.snapshot);
       for (const update of stored.updates) Y.applyUpdate(this.doc, update);
     });
-    this.lastSeq = stored.lastSeq;
     this.bytes = stored.bytes;
     this.updatesSinceSnapshot = stored.updates.length;
     this.doc.on('update', this.onUpdate);
@@ -179,10 +176,9 @@ export class Room {
   }
 
   /** The database committed these updates (in order): pass them on. */
-  committed(items: readonly AppliedUpdate[], lastSeq: number): void {
+  committed(items: readonly AppliedUpdate[]): void {
     this.committedCount += items.length;
     this.updatesSinceSnapshot += items.length;
-    this.lastSeq = Math.max(this.lastSeq, lastSeq);
     const first = items[0];
     if (first) {
       const sameSender = items.every((item) => item.from === first.from);
@@ -201,14 +197,17 @@ export class Room {
   compact(): Promise<void> {
     if (this.compacting) return this.compacting;
     if (this.updatesSinceSnapshot === 0) return Promise.resolve();
-    const counted = this.updatesSinceSnapshot;
-    const upToSeq = this.lastSeq;
-    const bytesBefore = this.bytes;
-    const state = Y.encodeStateAsUpdate(this.doc);
-    this.compacting = writeSnapshot(this.derivationId, state, upToSeq)
-      .then(() => {
+    let counted = 0;
+    let bytesBefore = 0;
+    this.compacting = writeSnapshot(this.derivationId, () => {
+      // Runs inside the snapshot's transaction: what is committed now is what the snapshot covers.
+      counted = this.updatesSinceSnapshot;
+      bytesBefore = this.bytes;
+      return Y.encodeStateAsUpdate(this.doc);
+    })
+      .then((size) => {
         this.updatesSinceSnapshot -= counted;
-        this.bytes = state.length + (this.bytes - bytesBefore);
+        this.bytes = size + (this.bytes - bytesBefore);
       })
       .catch((error: unknown) => {
         console.error(`collab: writing the snapshot of derivation ${this.derivationId} failed (the update log is kept):`, error);

@@ -1,7 +1,7 @@
 // Group commit for document updates: updates that arrive while a write is in flight (or within the
 // same turn of the event loop) go to the database together in one multi-row INSERT. Each caller
 // learns when its update is committed; only then may it be passed on to other clients.
-import type { AppendedRow, UpdateRow } from './store';
+import type { UpdateRow } from './store';
 
 export interface QueuedUpdate<Tag> extends UpdateRow {
   /** Carried through to onCommitted (the room and what it needs to broadcast). */
@@ -9,9 +9,9 @@ export interface QueuedUpdate<Tag> extends UpdateRow {
 }
 
 export interface UpdateWriterOptions<Tag> {
-  append(rows: readonly UpdateRow[]): Promise<AppendedRow[]>;
+  append(rows: readonly UpdateRow[]): Promise<void>;
   /** Called once per committed batch, with the rows in the order they were queued. */
-  onCommitted(batch: readonly QueuedUpdate<Tag>[], appended: readonly AppendedRow[]): void;
+  onCommitted(batch: readonly QueuedUpdate<Tag>[]): void;
   /** Called when a write fails; the batch stays queued and is tried again. */
   onFailure(error: unknown, attempt: number): void;
 }
@@ -40,8 +40,9 @@ export class UpdateWriter<Tag> {
     this.queue.push(item);
     if (!this.running) {
       this.running = true;
-      // Let the messages already read from the sockets in this turn join the batch.
-      setImmediate(() => void this.drain());
+      // The messages of the same socket read join this batch; those arriving while it is being
+      // written go together in the next.
+      queueMicrotask(() => void this.drain());
     }
   }
 
@@ -55,9 +56,8 @@ export class UpdateWriter<Tag> {
     while (this.queue.length > 0) {
       const batch = this.queue;
       this.queue = [];
-      let appended: AppendedRow[];
       try {
-        appended = await this.options.append(batch);
+        await this.options.append(batch);
       } catch (error) {
         this.failures++;
         this.queue = batch.concat(this.queue);
@@ -67,7 +67,7 @@ export class UpdateWriter<Tag> {
       }
       this.failures = 0;
       try {
-        this.options.onCommitted(batch, appended);
+        this.options.onCommitted(batch);
       } catch (error) {
         console.error('collab: passing on committed updates failed:', error);
       }

@@ -5,6 +5,9 @@ import { WebSocket } from 'ws';
 import { WebsocketProvider } from 'y-websocket';
 import * as Y from 'yjs';
 
+// Every provider adds an exit listener to the process; tests and the benchmark open many.
+process.setMaxListeners(Math.max(process.getMaxListeners(), 500));
+
 export interface SocketHeaders {
   cookie?: string;
   origin?: string;

@@ -1,20 +1,34 @@
 'use client';
-// The derivation's page. For now its heading and facts; the whiteboard joins it with the editor.
-import { useQuery } from '@tanstack/react-query';
+// The derivation's page: its heading, a line of facts, and the whiteboard (the shared text).
+import { useQuery, useQueryClient } from '@tanstack/react-query';
+import dynamic from 'next/dynamic';
 import Link from 'next/link';
+import { useCallback } from 'react';
 import { ClaimCount } from '@/components/StatusWord';
 import { Loading, Notice, PageTitle, When } from '@/components/ui';
 import { fetchJson } from '../../_lib/fetchJson';
 import type { DerivationView, Wire } from '../../_lib/wire';
 
-export function DerivationPage({ derivationId }: { derivationId: string }) {
+// The editor and its connection live in the browser only (Yjs, IndexedDB, websocket).
+const Whiteboard = dynamic(() => import('./Whiteboard'), {
+  ssr: false,
+  loading: () => <p className="text-ink-faint" role="status">Opening the derivation…</p>,
+});
+
+export function DerivationPage({ derivationId, user }: { derivationId: string; user: { id: string; name: string } }) {
+  const queryClient = useQueryClient();
   const derivation = useQuery({
     queryKey: ['derivation', derivationId],
     queryFn: () => fetchJson<Wire<DerivationView>>(`/api/derivations/${derivationId}`),
   });
+  const onRoleChanged = useCallback(() => {
+    void queryClient.invalidateQueries({ queryKey: ['derivation', derivationId] });
+  }, [queryClient, derivationId]);
+
   if (derivation.isPending) return <Loading what="the derivation" />;
   if (derivation.error) return <Notice kind="error">{derivation.error.message}</Notice>;
   const d = derivation.data;
+  const checked = d.claimsHolding + d.claimsFailing > 0;
   return (
     <article>
       <PageTitle
@@ -26,23 +40,42 @@ export function DerivationPage({ derivationId }: { derivationId: string }) {
       >
         {d.title}
       </PageTitle>
-      <dl className="grid max-w-2xl grid-cols-[10rem_1fr] gap-x-4 gap-y-2">
-        <dt className="text-ink-soft">Authors</dt>
-        <dd>{d.authors.map((a) => a.name).join(', ') || '—'}</dd>
-        <dt className="text-ink-soft">Claims</dt>
-        <dd className="flex gap-4">
-          <ClaimCount status="holds" count={d.claimsHolding} checked={d.claimsHolding + d.claimsFailing > 0} />
-          <ClaimCount status="fails" count={d.claimsFailing} checked={d.claimsHolding + d.claimsFailing > 0} />
-        </dd>
-        <dt className="text-ink-soft">Last edit</dt>
-        <dd>
-          <When iso={d.updatedAt} />
-        </dd>
-        <dt className="text-ink-soft">Locked versions</dt>
-        <dd>{d.lockedVersions === 0 ? 'none' : d.lockedVersions}</dd>
-        <dt className="text-ink-soft">You are</dt>
-        <dd>{d.role}</dd>
+      <dl className="flex flex-wrap gap-x-8 gap-y-1 text-sm text-ink-soft">
+        <div className="flex gap-2">
+          <dt>Authors</dt>
+          <dd className="text-ink">{d.authors.map((a) => a.name).join(', ') || '—'}</dd>
+        </div>
+        <div className="flex gap-2">
+          <dt>Claims</dt>
+          <dd className="flex gap-3 text-ink">
+            <ClaimCount status="holds" count={d.claimsHolding} checked={checked} />
+            {checked && <ClaimCount status="fails" count={d.claimsFailing} checked={checked} />}
+          </dd>
+        </div>
+        <div className="flex gap-2">
+          <dt>Last edit</dt>
+          <dd className="text-ink">
+            <When iso={d.updatedAt} />
+          </dd>
+        </div>
+        <div className="flex gap-2">
+          <dt>Locked versions</dt>
+          <dd className="text-ink">{d.lockedVersions === 0 ? 'none' : d.lockedVersions}</dd>
+        </div>
+        <div className="flex gap-2">
+          <dt>You are</dt>
+          <dd className="text-ink">{d.role}</dd>
+        </div>
       </dl>
+      <Whiteboard
+        key={`${derivationId}:${d.role}`}
+        derivationId={derivationId}
+        title={d.title}
+        user={user}
+        role={d.role}
+        canEdit={d.actions.includes('editText')}
+        onRoleChanged={onRoleChanged}
+      />
     </article>
   );
 }

@@ -6,6 +6,6 @@ export const metadata: Metadata = { title: 'Derivation' };
 
 export default async function Page({ params }: { params: Promise<{ derivationId: string }> }) {
   const { derivationId } = await params;
-  await requireUser(`/derivations/${derivationId}`);
-  return <DerivationPage derivationId={derivationId} />;
+  const user = await requireUser(`/derivations/${derivationId}`);
+  return <DerivationPage derivationId={derivationId} user={{ id: user.id, name: user.name }} />;
 }

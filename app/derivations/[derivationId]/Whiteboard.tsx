@@ -1,0 +1,71 @@
+'use client';
+// The derivation's whiteboard: who is here, the connection state, and the shared text.
+import Link from 'next/link';
+import { useMemo } from 'react';
+import { ConnectionState } from '@/components/ConnectionState';
+import { PresenceList } from '@/components/PresenceList';
+import { Notice } from '@/components/ui';
+import { DerivationEditor } from '@/editor/DerivationEditor';
+import type { EditorBinding } from '@/editor/extensions';
+import { usePresence } from '@/editor/presence';
+import { closeCodes } from '@/server/collab/closeReasons';
+import { useCollabSession } from './collabSession';
+
+export interface WhiteboardProps {
+  derivationId: string;
+  title: string;
+  user: { id: string; name: string };
+  role: string;
+  canEdit: boolean;
+  onRoleChanged: () => void;
+}
+
+export default function Whiteboard({ derivationId, title, user, role, canEdit, onRoleChanged }: WhiteboardProps) {
+  const session = useCollabSession({ derivationId, user: { ...user, role }, onRoleChanged });
+  const people = usePresence(session?.provider.awareness ?? null, user.id);
+  const binding = useMemo<EditorBinding | null>(
+    () => (session ? { doc: session.doc, provider: session.provider, user: session.user } : null),
+    // The binding follows the session's document and connection, not its changing state.
+    [session?.doc, session?.provider, session?.user],
+  );
+
+  if (!session || !binding) return <p className="text-ink-faint" role="status">Opening the derivation…</p>;
+  const final = session.final;
+  const editable = canEdit && (!final || final.keepEditing);
+
+  return (
+    <section aria-label="Whiteboard" className="mt-6">
+      <div className="mb-2 flex flex-wrap items-center justify-between gap-x-6 gap-y-2">
+        <ConnectionState phase={session.phase} />
+        <PresenceList people={people} />
+      </div>
+      {final && (
+        <div className="mb-3">
+          <Notice kind="error">
+            {final.message}{' '}
+            {final.code === closeCodes.sessionExpired && (
+              <>
+                Your changes are kept on this device.{' '}
+                <Link className="underline" href={`/signin?callbackUrl=${encodeURIComponent(`/derivations/${derivationId}`)}`}>
+                  Sign in again
+                </Link>
+              </>
+            )}
+          </Notice>
+        </div>
+      )}
+      {!canEdit && (
+        <p className="mb-2 text-sm text-ink-soft" data-read-only>
+          Read-only: as {role} you can read this derivation and follow it; the text can be changed by its authors.
+        </p>
+      )}
+      {session.ready ? (
+        <DerivationEditor binding={binding} editable={editable} label={title} />
+      ) : (
+        <p className="text-ink-faint" role="status">
+          Loading the text…
+        </p>
+      )}
+    </section>
+  );
+}

@@ -1,0 +1,235 @@
+// In Debian's Chromium: authors write one derivation together and see each other's text, carets
+// and names; a reader's page is read-only; formulas typeset (and a malformed one shows KaTeX's
+// error with its source kept); edits typed while the server is away survive a closed tab and
+// merge when it is back; a removed member is told why the connection closed.
+import { randomBytes } from 'node:crypto';
+import { mkdtemp, rm } from 'node:fs/promises';
+import { createServer } from 'node:net';
+import { tmpdir } from 'node:os';
+import path from 'node:path';
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, test } from 'vitest';
+import {
+  demoAccount,
+  demoSessions,
+  launchBrowser,
+  linkIn,
+  readMailbox,
+  registerAndSignIn,
+  startServer,
+  waitForMail,
+  type DemoSessions,
+  type StartedServer,
+} from '../helpers';
+
+let server: StartedServer;
+let browser: Browser;
+let demo: DemoSessions;
+let dataDir: string;
+let port: number;
+const secret = randomBytes(32).toString('base64url');
+const contexts: BrowserContext[] = [];
+
+async function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const probe = createServer();
+    probe.once('error', reject);
+    probe.listen(0, '127.0.0.1', () => {
+      const { port: found } = probe.address() as { port: number };
+      probe.close(() => resolve(found));
+    });
+  });
+}
+
+function start(): Promise<StartedServer> {
+  // A fixed port: the browser keeps a derivation's offline copy per origin.
+  return startServer({ demo: true, dataDir, env: { PORT: String(port), NEXTAUTH_SECRET: secret, MARGINALIA_COLLAB_RECHECK_MS: '500' } });
+}
+
+async function signedInPage(cookie: string): Promise<Page> {
+  const context = await browser.newContext();
+  contexts.push(context);
+  const [name, value] = cookie.split(/=(.*)/s) as [string, string];
+  await context.addCookies([{ name, value, url: server.url }]);
+  return context.newPage();
+}
+
+async function newDerivation(title: string): Promise<string> {
+  const created = await demo.as.lead.post<{ id: string }>(`/api/groups/${demo.groupId}/derivations`, { title });
+  expect(created.status).toBe(201);
+  return created.body.id;
+}
+
+async function openDerivation(page: Page, derivationId: string): Promise<void> {
+  await page.goto(`${server.url}/derivations/${derivationId}`);
+  await page.locator('[data-connection="connected"]').waitFor();
+  await page.locator('.ProseMirror').waitFor();
+}
+
+/** The text as written: blocks one per line, other authors' caret labels left out. */
+const editorText = (page: Page) =>
+  page.locator('.ProseMirror').evaluate((element) => {
+    const copy = element.cloneNode(true) as HTMLElement;
+    for (const caret of copy.querySelectorAll('.collab-caret')) caret.remove();
+    return [...copy.children].map((block) => (block.textContent ?? '').trim()).join('\n');
+  });
+
+beforeAll(async () => {
+  dataDir = await mkdtemp(path.join(tmpdir(), 'marginalia-collab-browser-'));
+  port = await freePort();
+  server = await start();
+  demo = await demoSessions(server.url);
+  browser = await launchBrowser();
+});
+
+afterAll(async () => {
+  for (const context of contexts) await context.close().catch(() => undefined);
+  await browser?.close();
+  await server?.stop();
+  await rm(dataDir, { recursive: true, force: true });
+});
+
+describe('writing together', () => {
+  test("two authors type into the same derivation and each sees the other's text, caret and name", async () => {
+    const derivationId = await newDerivation('Typing together');
+    const lead = await signedInPage(demo.cookies.lead);
+    const author = await signedInPage(demo.cookies.author);
+    await openDerivation(lead, derivationId);
+    await openDerivation(author, derivationId);
+
+    await lead.locator('.ProseMirror').click();
+    await lead.keyboard.type('The beta function at one loop.');
+    await author.locator('.ProseMirror', { hasText: 'The beta function at one loop.' }).waitFor();
+
+    await author.locator('.ProseMirror').click();
+    await author.keyboard.press('End');
+    await author.keyboard.press('Enter');
+    await author.keyboard.type('Its fixed point comes next.');
+    await lead.locator('.ProseMirror', { hasText: 'Its fixed point comes next.' }).waitFor();
+    expect(await editorText(lead)).toBe(await editorText(author));
+
+    // Each sees the other's caret, labelled with their name, and both in the list of who is here.
+    await lead.locator(`.collab-caret[data-name="${demoAccount('author').name}"]`).waitFor();
+    await author.locator(`.collab-caret[data-name="${demoAccount('lead').name}"]`).waitFor();
+    expect(await lead.locator('.collab-caret-label').first().textContent()).toBe(demoAccount('author').name);
+    const here = lead.getByRole('region', { name: 'Who is here' });
+    await here.getByText(demoAccount('author').name).waitFor();
+    expect(await here.textContent()).toContain(`${demoAccount('lead').name} (you)`);
+  });
+
+  test("a reader's page is read-only: typing changes nothing, here or for the authors", async () => {
+    const derivationId = await newDerivation('Read only for readers');
+    const author = await signedInPage(demo.cookies.author);
+    const reader = await signedInPage(demo.cookies.reader);
+    await openDerivation(author, derivationId);
+    await author.locator('.ProseMirror').click();
+    await author.keyboard.type('Only authors write here.');
+    await openDerivation(reader, derivationId);
+    await reader.locator('.ProseMirror', { hasText: 'Only authors write here.' }).waitFor();
+
+    expect(await reader.locator('.ProseMirror').getAttribute('contenteditable')).toBe('false');
+    expect(await reader.locator('[data-read-only]').textContent()).toMatch(/Read-only: as reader/);
+    expect(await reader.getByRole('toolbar', { name: 'Formatting' }).count()).toBe(0);
+    await reader.locator('.ProseMirror').click();
+    await reader.keyboard.type('A reader tries to write.');
+    await author.getByRole('region', { name: 'Who is here' }).getByText(demoAccount('reader').name).waitFor();
+    await new Promise((resolve) => setTimeout(resolve, 500));
+    expect(await editorText(reader)).toBe('Only authors write here.');
+    expect(await editorText(author)).toBe('Only authors write here.');
+  });
+});
+
+describe('math', () => {
+  test('inline and display math typeset as the caret leaves them; a malformed formula shows its error and keeps its source', async () => {
+    const derivationId = await newDerivation('Formulas');
+    const author = await signedInPage(demo.cookies.author);
+    const lead = await signedInPage(demo.cookies.lead);
+    await openDerivation(author, derivationId);
+    await openDerivation(lead, derivationId);
+    await author.locator('.ProseMirror').click();
+    await author.keyboard.type('The coupling $g^2$ flows');
+    const inline = author.locator('.math-inline').first();
+    await inline.locator('.katex').waitFor();
+    expect(await inline.locator('annotation').textContent()).toBe('g^2');
+    await lead.locator('.math-inline .katex').waitFor(); // the other author sees it typeset too
+
+    // Clicking the typeset formula shows its source for editing.
+    await inline.locator('.math-rendered').click();
+    await author.locator('.math-inline.math-editing .math-source').waitFor();
+    expect(await author.locator('.math-inline.math-editing .math-source').textContent()).toBe('g^2');
+    await author.keyboard.press('Escape');
+    await author.locator('.math-inline.math-editing').waitFor({ state: 'detached' });
+
+    await author.keyboard.press('End');
+    await author.keyboard.type(' and $\\frac{1}{2$ is broken.');
+    const broken = author.locator('.math-inline.math-has-error');
+    await broken.waitFor();
+    expect(await broken.locator('.math-error-message').textContent()).toMatch(/^KaTeX parse error: /);
+    expect(await broken.locator('.math-error-source').textContent()).toBe('$\\frac{1}{2$');
+    expect(await broken.locator('.math-source').textContent()).toBe('\\frac{1}{2'); // the source is kept as written
+    await lead.locator('.math-inline.math-has-error .math-error-message').waitFor();
+
+    await author.keyboard.press('Enter');
+    await author.keyboard.type('$$ ');
+    await author.keyboard.type('\\beta(g) = -\\epsilon g + \\frac{3}{2} g^2');
+    await author.keyboard.press('Escape');
+    const display = author.locator('.math-display').first();
+    await display.locator('.katex-display').waitFor();
+    expect(await display.locator('annotation').textContent()).toBe('\\beta(g) = -\\epsilon g + \\frac{3}{2} g^2');
+    await lead.locator('.math-display .katex-display').waitFor();
+  });
+});
+
+describe('connection', () => {
+  test('edits typed while the server is away survive a closed tab and reach the other author when it is back', async () => {
+    const derivationId = await newDerivation('Away and back');
+    const lead = await signedInPage(demo.cookies.lead);
+    const author = await signedInPage(demo.cookies.author);
+    await openDerivation(lead, derivationId);
+    await openDerivation(author, derivationId);
+    await author.locator('.ProseMirror').click();
+    await author.keyboard.type('Written while connected.');
+    await lead.locator('.ProseMirror', { hasText: 'Written while connected.' }).waitFor();
+
+    await author.context().setOffline(true);
+    await author.locator('[data-connection="offline"]', { hasText: 'Offline — changes kept on this device' }).waitFor();
+    await author.context().setOffline(false);
+
+    await server.kill('SIGKILL');
+    await author.locator('[data-connection="reconnecting"]', { hasText: 'changes kept on this device' }).waitFor();
+    await author.keyboard.press('End');
+    await author.keyboard.type(' Then written while the server was away.');
+    await new Promise((resolve) => setTimeout(resolve, 500)); // the browser stores the change
+    await author.close();
+
+    server = await start();
+    await lead.locator('[data-connection="connected"]').waitFor({ timeout: 30_000 });
+    expect(await editorText(lead)).not.toContain('while the server was away');
+    const reopened = await author.context().newPage();
+    await openDerivation(reopened, derivationId);
+    await lead.locator('.ProseMirror', { hasText: 'Then written while the server was away.' }).waitFor();
+    expect(await editorText(reopened)).toBe('Written while connected. Then written while the server was away.');
+    expect(await editorText(lead)).toBe(await editorText(reopened));
+  });
+
+  test('a member removed from the group is told in words that their access was removed', async () => {
+    const email = 'briefly-here@chains.example';
+    const before = await readMailbox(server.url, { to: email });
+    expect((await demo.as.lead.post(`/api/groups/${demo.groupId}/invitations`, { email, role: 'author' })).status).toBe(201);
+    const link = linkIn(await waitForMail(server.url, { to: email, notIn: before }), '/invitations/');
+    const cookie = await registerAndSignIn(server.url, {
+      name: 'Briefly Here',
+      email,
+      password: 'briefly-here-password',
+      invitation: new URL(link).pathname.split('/').pop()!,
+    });
+    const members = await demo.as.lead.get<{ members: { userId: string; email: string }[] }>(`/api/groups/${demo.groupId}/members`);
+    const member = members.body.members.find((m) => m.email === email)!;
+    const page = await signedInPage(cookie);
+    await openDerivation(page, demo.derivationId);
+    expect((await demo.as.lead.delete(`/api/groups/${demo.groupId}/members/${member.userId}`)).status).toBe(200);
+    await page.locator('[data-connection="closed"]').waitFor();
+    await page.getByRole('alert').getByText('Your access to this derivation was removed.').waitFor();
+    expect(await page.locator('.ProseMirror').getAttribute('contenteditable')).toBe('false');
+  });
+});
