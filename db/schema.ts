@@ -238,6 +238,8 @@ export const claimChecks = pgTable(
     /** The claim's id in the claim file (its name, or one made from its step). */
     claimId: text('claim_id').notNull(),
     kind: text('kind').notNull(),
+    /** Its place among the document's claim blocks (0 for the first), as of the last run. */
+    position: integer('position').notNull().default(0),
     /** The flow block it was checked against; null for claims without a flow. */
     flowStepId: text('flow_step_id'),
     status: checkStatus('status').notNull(),

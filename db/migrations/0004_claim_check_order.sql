@@ -1,0 +1,1 @@
+ALTER TABLE "claim_checks" ADD COLUMN "position" integer DEFAULT 0 NOT NULL;
