@@ -57,9 +57,16 @@ async function main(): Promise<void> {
     void handle(req, res);
   });
   await new Promise<void>((resolve, reject) => {
-    httpServer.once('error', reject);
+    httpServer.once('error', (error: NodeJS.ErrnoException) =>
+      reject(
+        error.code === 'EADDRINUSE'
+          ? new ConfigError(`Port ${config.port} on ${config.host} is already in use. Set PORT to another port (0 = any free port).`)
+          : error,
+      ),
+    );
     httpServer.listen(config.port, config.host, () => {
-      httpServer.off('error', reject);
+      httpServer.removeAllListeners('error');
+      httpServer.on('error', (error) => console.error('HTTP server error:', error.message));
       resolve();
     });
   });

@@ -7,7 +7,7 @@ import { tmpdir } from 'node:os';
 import path from 'node:path';
 import { SMTPServer } from 'smtp-server';
 import { simpleParser } from 'mailparser';
-import type { AddressInfo } from 'node:net';
+import { createServer, type AddressInfo } from 'node:net';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import {
   api,
@@ -124,6 +124,19 @@ describe('refusing to start with bad configuration', () => {
     const run = await runServerToExit({ env: { PORT: 'eighty' } });
     expect(run.code).toBe(1);
     expect(run.output).toMatch(/PORT must be a port number.*"eighty"/);
+  });
+
+  test('a port already in use is refused with a hint', async () => {
+    const blocker = createServer();
+    await new Promise<void>((resolve) => blocker.listen(0, '127.0.0.1', resolve));
+    try {
+      const port = (blocker.address() as AddressInfo).port;
+      const run = await runServerToExit({ env: { PORT: String(port) } });
+      expect(run.code).toBe(1);
+      expect(run.output).toContain(`Port ${port} on 127.0.0.1 is already in use. Set PORT to another port`);
+    } finally {
+      await new Promise<void>((resolve) => blocker.close(() => resolve()));
+    }
   });
 
   test('serving beyond this machine without a public origin is refused', async () => {
