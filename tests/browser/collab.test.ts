@@ -139,6 +139,58 @@ describe('writing together', () => {
   });
 });
 
+describe('steps', () => {
+  test('every block is a step with its own id: a split keeps the first part\'s id, a pasted copy gets a new one, and both authors see the same ids', async () => {
+    const derivationId = await newDerivation('Steps and their ids');
+    const author = await signedInPage(demo.cookies.author);
+    const lead = await signedInPage(demo.cookies.lead);
+    await openDerivation(author, derivationId);
+    await openDerivation(lead, derivationId);
+    await author.locator('.ProseMirror').click();
+    await author.keyboard.type('First step of the flow.');
+    await author.keyboard.press('Enter');
+    await author.keyboard.type('Second step.');
+    const ids = (page: Page) => page.locator('.ProseMirror > *').evaluateAll((blocks) => blocks.map((b) => b.getAttribute('data-step-id')));
+    await author.waitForFunction(() => [...document.querySelectorAll('.ProseMirror > *')].every((b) => b.getAttribute('data-step-id')));
+    const [first, second] = await ids(author);
+    expect(first).toBeTruthy();
+    expect(second).toBeTruthy();
+    expect(first).not.toBe(second);
+
+    // Split the first line after "First step": the first part keeps the step's id.
+    await author.locator('.ProseMirror > p').first().click();
+    await author.keyboard.press('Home');
+    for (let i = 0; i < 'First step'.length; i++) await author.keyboard.press('ArrowRight');
+    await author.keyboard.press('Enter');
+    await author.waitForFunction(() => document.querySelectorAll('.ProseMirror > *').length === 3 && [...document.querySelectorAll('.ProseMirror > *')].every((b) => b.getAttribute('data-step-id')));
+    const afterSplit = await ids(author);
+    expect(afterSplit[0]).toBe(first);
+    expect(afterSplit[2]).toBe(second);
+    expect(new Set(afterSplit).size).toBe(3);
+
+    // Paste a copy of the first step (with its id) at the end: the copy gets a fresh id.
+    await author.locator('.ProseMirror > p').last().click();
+    await author.keyboard.press('End');
+    await author.locator('.ProseMirror').evaluate((element, id) => {
+      const data = new DataTransfer();
+      data.setData('text/html', `<p data-step-id="${id}">A pasted copy.</p><p data-step-id="${id}">And another.</p>`);
+      data.setData('text/plain', 'A pasted copy.\n\nAnd another.');
+      element.dispatchEvent(new ClipboardEvent('paste', { clipboardData: data, bubbles: true, cancelable: true }));
+    }, first);
+    await author.locator('.ProseMirror', { hasText: 'And another.' }).waitFor();
+    await author.waitForFunction(() => {
+      const all = [...document.querySelectorAll('.ProseMirror > *')].map((b) => b.getAttribute('data-step-id'));
+      return all.every(Boolean) && new Set(all).size === all.length;
+    });
+    const afterPaste = await ids(author);
+    expect(afterPaste[0]).toBe(first);
+    expect(new Set(afterPaste).size).toBe(afterPaste.length);
+    await lead.locator('.ProseMirror', { hasText: 'And another.' }).waitFor();
+    await lead.waitForFunction((count) => document.querySelectorAll('.ProseMirror > *').length === count, afterPaste.length);
+    expect(await ids(lead)).toEqual(afterPaste);
+  });
+});
+
 describe('math', () => {
   test('inline and display math typeset as the caret leaves them; a malformed formula shows its error and keeps its source', async () => {
     const derivationId = await newDerivation('Formulas');
