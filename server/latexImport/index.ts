@@ -24,11 +24,11 @@ export interface ImportResult {
 export function latexText(bytes: Uint8Array): { text: string; latin1: boolean } {
   if (bytes.byteLength === 0) throw badRequest('The file is empty.', 'file');
   if (bytes.byteLength > MAX_LATEX_BYTES) throw badRequest(`The file is over the limit of 2 MB for a LaTeX import.`, 'file');
-  const nul = bytes.indexOf(0);
-  if (nul >= 0) throw badRequest(`This is not a LaTeX source file: it contains binary data (a NUL byte at byte ${nul + 1}).`, 'file');
   if (bytes[0] === 0x25 && bytes[1] === 0x50 && bytes[2] === 0x44 && bytes[3] === 0x46) {
     throw badRequest('This is a PDF, not a LaTeX source file: import the .tex file it was made from.', 'file');
   }
+  const nul = bytes.indexOf(0);
+  if (nul >= 0) throw badRequest(`This is not a LaTeX source file: it contains binary data (a NUL byte at byte ${nul + 1}).`, 'file');
   try {
     const text = new TextDecoder('utf-8', { fatal: true }).decode(bytes);
     return { text: text.charCodeAt(0) === 0xfeff ? text.slice(1) : text, latin1: false };

@@ -152,7 +152,8 @@ class LatexReader {
     if (documentNode) {
       const preamble = root.content.slice(0, root.content.indexOf(documentNode));
       this.readPreamble(preamble);
-      this.hasTitle = this.title !== null;
+      // The title becomes the first heading only where \maketitle prints it; sections sit below it then.
+      this.hasTitle = this.title !== null && documentNode.content.some((n) => n.type === 'macro' && n.content === 'maketitle');
       this.walkBlocks(documentNode.content, { marks: [] });
       const after = root.content.slice(root.content.indexOf(documentNode) + 1).filter((n) => n.type !== 'whitespace' && n.type !== 'parbreak' && n.type !== 'comment');
       if (after.length > 0) this.note('text after \\end{document}', lineOf(after[0]), 'LaTeX ignores it, and so does the import');

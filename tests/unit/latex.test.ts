@@ -152,12 +152,15 @@ describe('the constructs one at a time', () => {
 });
 
 describe('the document the editor opens', () => {
-  const schema = getSchema([StarterKit.configure({ undoRedo: false, trailingNode: false, heading: { levels: [1, 2, 3] } }), StepIds, MathInline, MathDisplay]);
+  // The editor's own nodes: StarterKit as the editor configures it, its step ids and its math.
+  const editorSchema = () =>
+    getSchema([StarterKit.configure({ undoRedo: false, trailingNode: false, heading: { levels: [1, 2, 3] } }), StepIds, MathInline, MathDisplay]);
 
   test('fits the editor’s schema, with a unique step id on every top-level block, and the note of what was left out at the end', () => {
     const read = readLatex(paper);
     let n = 0;
     const doc = toProseMirror([...read.blocks, ...leftOutBlocks('paper.tex', read.leftOut)], () => `step-${++n}`);
+    const schema = editorSchema();
     const node = Node.fromJSON(schema, doc);
     expect(() => node.check()).not.toThrow();
     const ids: unknown[] = [];
@@ -176,6 +179,7 @@ describe('the document the editor opens', () => {
     const read = readLatex(paper);
     let n = 0;
     const doc = toProseMirror(read.blocks, () => `step-${++n}`);
+    const schema = editorSchema();
     const ydoc = new Y.Doc();
     Y.applyUpdate(ydoc, toYjsUpdate(doc));
     const back = Node.fromJSON(schema, yXmlFragmentToProsemirrorJSON(ydoc.getXmlFragment('body')));
