@@ -311,13 +311,14 @@ describe('durability', () => {
       for (let i = 0; streaming; i++) {
         const body = c.doc.getXmlFragment('body');
         const paragraph = new Y.XmlElement('paragraph');
-        paragraph.insert(0, [new Y.XmlText(`${name}-${i}`)]);
+        // Sizeable paragraphs keep the writer busy, so the kill lands while updates are in flight.
+        paragraph.insert(0, [new Y.XmlText(`${name}-${i}`), new Y.XmlText(` ${'w'.repeat(2000)}`)]);
         body.push([paragraph]);
         await pause(2);
       }
     };
     const streams = [stream(lead, 'lead'), stream(author, 'author')];
-    await eventually(() => watcher.doc.getXmlFragment('body').length > 200, 'a good part of the stream to reach the watcher');
+    await eventually(() => watcher.doc.getXmlFragment('body').length > 120, 'a good part of the stream to reach the watcher');
     await server.kill('SIGKILL');
     streaming = false;
     await Promise.all(streams);
@@ -340,7 +341,7 @@ describe('durability', () => {
     expect(stored.get(author.doc.clientID) ?? 0).toBeGreaterThanOrEqual(received.leadFromAuthor);
     expect(stored.get(lead.doc.clientID) ?? 0).toBeGreaterThanOrEqual(received.authorFromLead);
     const storedText = bodyText(fresh.doc);
-    for (const token of watcherText.match(/(lead|author)-\d+/g) ?? []) expect(storedText).toContain(`>${token}<`);
+    for (const token of watcherText.match(/(lead|author)-\d+/g) ?? []) expect(storedText).toContain(`>${token} w`);
     expect(storedText).not.toContain('READER-NEVER-STORED');
   });
 });
