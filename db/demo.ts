@@ -3,6 +3,7 @@
 // versions, remarks and dataset. Loaded only into an empty database.
 import { sql } from 'drizzle-orm';
 import type { Db } from './client';
+import { insertDemoDataset } from './demoDataset';
 import * as schema from './schema';
 import type { MemberRole } from './schema';
 
@@ -70,6 +71,7 @@ export async function loadDemoData(db: Db, hashPassword: (password: string) => P
       { derivationId: derivation!.id, userId: idOf('lead') },
       { derivationId: derivation!.id, userId: idOf('author') },
     ]);
+    await insertDemoDataset(tx, group!.id, idOf('author'));
   });
   return true;
 }

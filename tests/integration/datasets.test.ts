@@ -2,6 +2,8 @@
 // dataset's description and numbers, the CSV download, every refused file with its line numbers,
 // the size limit, the role rules (DESIGN.md roles table) and the wall between groups.
 import Papa from 'papaparse';
+import { demoDatasetName } from '../../db/demoDataset';
+import { agreesWithExponent } from '../../flow/fit';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import {
   api,
@@ -264,6 +266,17 @@ describe('uploading a dataset', () => {
     const wrongCount = await upload(walkCsv, { columns: walkColumns.slice(0, 2) });
     expect(wrongCount.status).toBe(400);
     expect(wrongCount.body.error).toMatch(/lists 2 columns; the file has 3/);
+  });
+});
+
+describe('the demo group’s dataset', () => {
+  test('the demo comes with an invented dataset whose numbers agree with the (ln T)^(1/4) correction they were made with', async () => {
+    const row = (await listOf(demo.as.reader)).find((d) => d.name === demoDatasetName)!;
+    expect(row).toMatchObject({ rowCount: 16, hasErrorBars: true, uploadedBy: demoAccount('author').name });
+    const series = await demo.as.reader.get<Series>(`/api/groups/${demo.groupId}/datasets/${row.id}/columns`);
+    const data = { x: series.body.x.values, y: series.body.y.values, sigma: series.body.sigma!.values };
+    expect(agreesWithExponent(data, 'p', 0.25, { other: 1 }).verdict).toBe('agrees');
+    expect(agreesWithExponent(data, 'p', 0, { other: 1 }).verdict).toBe('disagrees');
   });
 });
 
