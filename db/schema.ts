@@ -252,3 +252,110 @@ export const claimChecks = pgTable(
   },
   (t) => [primaryKey({ columns: [t.derivationId, t.stepId] })],
 );
+
+// ---- review: remarks anchored to steps, sign-offs, who wrote each step, claims turned failing --
+
+/**
+ * A remark thread anchored to a step (by stepId) of a derivation's working copy. The anchor is a
+ * step id, not a position, so edits elsewhere never move it; a thread whose step was removed stays
+ * (shown "on a removed step" with the excerpt kept from when it was started).
+ */
+export const remarkThreads = pgTable(
+  'remark_threads',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    derivationId: uuid('derivation_id').notNull().references(() => derivations.id, { onDelete: 'cascade' }),
+    stepId: text('step_id').notNull(),
+    /** The step's text when the thread was started (a short excerpt). */
+    stepExcerpt: text('step_excerpt').notNull().default(''),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+    resolvedAt: timestamp('resolved_at', { withTimezone: true }),
+    resolvedBy: uuid('resolved_by').references(() => users.id, { onDelete: 'set null' }),
+  },
+  (t) => [index('remark_threads_derivation_idx').on(t.derivationId, t.stepId)],
+);
+
+/** What happened in a thread, in order: a remark (the first one opens it), or it was resolved or reopened. */
+export const remarkEntryKinds = ['remark', 'resolved', 'reopened'] as const;
+export type RemarkEntryKind = (typeof remarkEntryKinds)[number];
+export const remarkEntryKind = pgEnum('remark_entry_kind', remarkEntryKinds);
+
+/** The entries of a remark thread. Nothing is ever deleted or rewritten. */
+export const remarkEntries = pgTable(
+  'remark_entries',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    threadId: uuid('thread_id').notNull().references(() => remarkThreads.id, { onDelete: 'cascade' }),
+    kind: remarkEntryKind('kind').notNull(),
+    authorId: uuid('author_id').references(() => users.id, { onDelete: 'set null' }),
+    body: text('body').notNull().default(''),
+    createdAt: createdAt(),
+  },
+  (t) => [index('remark_entries_thread_idx').on(t.threadId, t.createdAt)],
+);
+
+/**
+ * A reviewer's (or lead's) sign-off of a step. At sign-off the server records a SHA-256 of the
+ * step's content and, for a step bound to a flow block (a claim), of that block; a later edit that
+ * changes either clears it (clearedAt, with the reason and whose edit). Cleared rows are kept:
+ * they are the step's sign-off history. At most one standing sign-off per person and step.
+ */
+export const signOffs = pgTable(
+  'sign_offs',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    derivationId: uuid('derivation_id').notNull().references(() => derivations.id, { onDelete: 'cascade' }),
+    stepId: text('step_id').notNull(),
+    userId: uuid('user_id').references(() => users.id, { onDelete: 'set null' }),
+    signedAt: timestamp('signed_at', { withTimezone: true }).notNull().defaultNow(),
+    contentHash: text('content_hash').notNull(),
+    /** The flow block the step depends on, and a hash of it; null for a step that depends on none. */
+    dependencyStepId: text('dependency_step_id'),
+    dependencyHash: text('dependency_hash'),
+    clearedAt: timestamp('cleared_at', { withTimezone: true }),
+    /** Why it was cleared, in words ("the step was edited", "withdrawn by its signer", ...). */
+    clearedReason: text('cleared_reason'),
+    /** Whose edit cleared it (or who withdrew it); null when no one person's. */
+    clearedBy: uuid('cleared_by').references(() => users.id, { onDelete: 'set null' }),
+  },
+  (t) => [
+    index('sign_offs_derivation_idx').on(t.derivationId, t.stepId),
+    uniqueIndex('sign_offs_standing_idx').on(t.derivationId, t.stepId, t.userId).where(sql`${t.clearedAt} is null`),
+  ],
+);
+
+/** Who wrote each step: every user whose accepted edits touched it (for "a remark on your step"). */
+export const stepAuthors = pgTable(
+  'step_authors',
+  {
+    derivationId: uuid('derivation_id').notNull().references(() => derivations.id, { onDelete: 'cascade' }),
+    stepId: text('step_id').notNull(),
+    userId: uuid('user_id').notNull().references(() => users.id, { onDelete: 'cascade' }),
+    firstEditAt: timestamp('first_edit_at', { withTimezone: true }).notNull().defaultNow(),
+    lastEditAt: timestamp('last_edit_at', { withTimezone: true }).notNull().defaultNow(),
+  },
+  (t) => [primaryKey({ columns: [t.derivationId, t.stepId, t.userId] })],
+);
+
+/**
+ * A claim that held and now fails after an edit, waiting to be mailed to the derivation's authors
+ * (batched per derivation). Kept in the database so a restart does not lose the mail; mailedAt is
+ * set once it was dealt with: mailed, or found holding again before the mail left.
+ */
+export const claimTurnNotices = pgTable(
+  'claim_turn_notices',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    derivationId: uuid('derivation_id').notNull().references(() => derivations.id, { onDelete: 'cascade' }),
+    stepId: text('step_id').notNull(),
+    claimId: text('claim_id').notNull(),
+    kind: text('kind').notNull(),
+    message: text('message').notNull().default(''),
+    /** The users whose edits led to the run that found it failing. */
+    editedBy: uuid('edited_by').array().notNull().default(sql`'{}'::uuid[]`),
+    turnedAt: timestamp('turned_at', { withTimezone: true }).notNull().defaultNow(),
+    mailedAt: timestamp('mailed_at', { withTimezone: true }),
+  },
+  (t) => [index('claim_turn_notices_pending_idx').on(t.derivationId).where(sql`${t.mailedAt} is null`)],
+);
