@@ -20,6 +20,8 @@ export interface DocumentChange {
   userIds: string[];
   /** Steps (top-level blocks, by stepId) whose text or attributes changed, or that were added. */
   stepIds: string[];
+  /** Which steps each user's edits in this change touched (several users' edits can commit together). */
+  edits: { userId: string; stepIds: string[] }[];
   /** The change as one Yjs update. */
   update: Uint8Array;
 }

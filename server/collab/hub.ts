@@ -224,6 +224,10 @@ export class CollabHub implements CollabAccess {
           derivationId: room.derivationId,
           userIds,
           stepIds: [...new Set(items.flatMap((item) => item.stepIds))],
+          edits: userIds.map((userId) => ({
+            userId,
+            stepIds: [...new Set(items.filter((item) => item.userId === userId).flatMap((item) => item.stepIds))],
+          })),
           update: items.length === 1 ? items[0]!.update : Y.mergeUpdates(items.map((item) => item.update)),
         };
         for (const listener of this.listeners) {
