@@ -1,6 +1,7 @@
 // In Debian's Chromium: an author uploads a CSV, sees its first rows, says what the columns mean,
 // and finds the data drawn with their error bars beside a fit; a file with a ragged row is stopped
-// in the browser with its line number and nothing reaches the group's list.
+// in the browser with its line number and nothing reaches the group's list; a .tex file imported
+// from the group's page opens as a derivation with its formulas typeset and its leftovers listed.
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
@@ -114,4 +115,33 @@ test('a ragged row is shown with its line number before anything is sent, and th
   expect(new URL(page.url()).pathname).toMatch(/\/datasets\/new$/);
   const after = (await api(server.url, demo.cookies.lead).get<{ datasets: unknown[] }>(`/api/groups/${demo.groupId}/datasets`)).body.datasets.length;
   expect(after).toBe(before);
+});
+
+test('a .tex file imported from the derivations page opens as a derivation with its equations typeset by KaTeX', async () => {
+  await page.goto(`${server.url}/groups/${demo.groupId}`);
+  await page.getByRole('link', { name: 'or import a LaTeX file' }).click();
+  await page.waitForURL(/\/import$/);
+  const tex = [
+    '\\documentclass{article}',
+    '\\begin{document}',
+    '\\section{Fixed point}',
+    'At one loop $\\beta(g) = -\\epsilon g + \\tfrac{n+8}{3} g^2$, so',
+    '\\begin{equation} g^* = \\frac{3\\epsilon}{n+8} \\end{equation}',
+    '\\begin{table}\\begin{tabular}{cc}1&2\\end{tabular}\\end{table}',
+    '\\end{document}',
+  ].join('\n');
+  await page.getByLabel('LaTeX file').setInputFiles({ name: 'fixed-point.tex', mimeType: 'text/x-tex', buffer: Buffer.from(tex) });
+  await page.getByLabel('Title of the new derivation').fill('Imported fixed point');
+  await page.getByRole('button', { name: 'Import' }).click();
+  const leftOut = page.getByTestId('left-out');
+  await leftOut.waitFor();
+  expect(await leftOut.textContent()).toContain('\\begin{table}');
+  expect(await leftOut.textContent()).toContain('line 6');
+  await page.getByRole('link', { name: 'Imported fixed point' }).click();
+  await page.waitForURL(/\/derivations\/[0-9a-f-]{36}$/);
+  const display = page.locator('.math-display .katex').first();
+  await display.waitFor({ timeout: 30_000 });
+  expect(await page.locator('.math-inline .katex').count()).toBeGreaterThan(0);
+  expect(await page.getByRole('heading', { name: 'Fixed point' }).count()).toBeGreaterThan(0);
+  await page.screenshot({ path: path.join(repoRoot, 'tests/.artifacts/imported-derivation.png'), fullPage: true });
 });
