@@ -6,7 +6,8 @@ import CredentialsProvider from 'next-auth/providers/credentials';
 import EmailProvider from 'next-auth/providers/email';
 import { getDb, schema } from '../db/client';
 import { marginaliaAdapter } from './authAdapter';
-import { escapeHtml, sendMail } from './mail';
+import { sendMail } from './mail';
+import { signInLinkMail } from './mailTemplates';
 import { verifyPassword } from './passwords';
 import { clearAttempts, linkRequests, minutesUntilAllowed, passwordFailures, recordAttempt } from './rateLimit';
 
@@ -65,14 +66,7 @@ export const authOptions: NextAuthOptions = {
       from: process.env.MAIL_FROM ?? 'Marginalia <no-reply@marginalia.localhost>',
       async sendVerificationRequest({ identifier, url }) {
         const lifetime = describeLifetime(signInLinkSeconds());
-        await sendMail({
-          to: identifier,
-          subject: 'Your Marginalia sign-in link',
-          text: `Open this link to sign in to Marginalia:\n\n${url}\n\nIt works once, within ${lifetime}. If you did not ask for it, ignore this message.\n`,
-          html:
-            `<p>Open this link to sign in to Marginalia:</p><p><a href="${escapeHtml(url)}">Sign in</a></p>` +
-            `<p>It works once, within ${lifetime}. If you did not ask for it, ignore this message.</p>`,
-        });
+        await sendMail({ to: identifier, ...signInLinkMail({ link: url, lifetime }) });
       },
     }),
   ],

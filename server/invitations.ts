@@ -6,7 +6,8 @@ import { and, desc, eq, gt, isNull } from 'drizzle-orm';
 import { getDb, schema, type Tx } from '../db/client';
 import type { MemberRole } from '../db/schema';
 import { ApiError, conflict, forbidden, notFound } from './api/errors';
-import { escapeHtml, sendMail } from './mail';
+import { sendMail } from './mail';
+import { invitationMail } from './mailTemplates';
 
 type InvitationRow = typeof schema.invitations.$inferSelect;
 
@@ -105,17 +106,7 @@ export async function inviteMember(input: NewInvitation): Promise<PendingInvitat
   const link = `${input.origin}/invitations/${token}`;
   const days = Math.max(1, Math.round(invitationSeconds() / 86400));
   try {
-    await sendMail({
-      to: email,
-      subject: `${input.invitedBy.name} invites you to ${group.name} on Marginalia`,
-      text:
-        `${input.invitedBy.name} invites you to join the research group "${group.name}" on Marginalia as ${input.role}.\n\n` +
-        `Accept the invitation here:\n${link}\n\nThe link works once and expires in ${days} day${days === 1 ? '' : 's'}.\n`,
-      html:
-        `<p>${escapeHtml(input.invitedBy.name)} invites you to join the research group <strong>${escapeHtml(group.name)}</strong> on Marginalia as ${input.role}.</p>` +
-        `<p><a href="${escapeHtml(link)}">Accept the invitation</a></p>` +
-        `<p>The link works once and expires in ${days} day${days === 1 ? '' : 's'}.</p>`,
-    });
+    await sendMail({ to: email, ...invitationMail({ inviter: input.invitedBy.name, groupName: group.name, role: input.role, link, days }) });
   } catch (error) {
     await db.delete(schema.invitations).where(eq(schema.invitations.id, row!.id));
     console.error(`Mailing an invitation failed: ${(error as Error).message}`);
