@@ -15,7 +15,6 @@ import {
   linkIn,
   readMailbox,
   registerAndSignIn,
-  signIn,
   startServer,
   waitForMail,
   type DemoSessions,
@@ -297,6 +296,23 @@ describe('limits and close reasons', () => {
 });
 
 describe('durability', () => {
+  test('a clean stop tells connected clients the server is restarting, stores everything, and the restart has it', async () => {
+    const derivationId = await newDerivation('Clean stop');
+    const author = client(demo.cookies.author, derivationId, { reconnect: false });
+    await author.synced();
+    firstLine(author.doc).insert(0, 'kept across a clean stop');
+    await pause(200);
+    const closed = nextClose(author);
+    expect(await server.stop()).toBe(0);
+    expect(await closed).toEqual({ code: closeCodes.serverStopping, reason: closeMessages[closeCodes.serverStopping] });
+    author.provider.destroy();
+    server = await start();
+    demo = await demoSessions(server.url);
+    const fresh = client(demo.cookies.lead, derivationId);
+    await fresh.synced();
+    expect(bodyText(fresh.doc)).toContain('kept across a clean stop');
+  });
+
   test('after kill -9 in the middle of a stream of edits and a restart, every update any client had received is there', async () => {
     const derivationId = await newDerivation('Kill in the middle');
     const lead = client(demo.cookies.lead, derivationId, { reconnect: false });
@@ -333,7 +349,8 @@ describe('durability', () => {
     for (const c of [lead, author, watcher, reader]) c.provider.destroy();
 
     server = await start();
-    const fresh = client(await signIn(server.url, demoAccount('lead').email, demoAccount('lead').password), derivationId);
+    demo = await demoSessions(server.url);
+    const fresh = client(demo.cookies.lead, derivationId);
     await fresh.synced();
     const stored = Y.decodeStateVector(Y.encodeStateVector(fresh.doc));
     expect(received.watcher.size).toBeGreaterThan(0);
