@@ -5,6 +5,7 @@
 //   order, on shutdown (e.g. background jobs). Add an entry here; server/index.ts does the rest.
 import type { IncomingMessage, Server } from 'node:http';
 import type { Duplex } from 'node:stream';
+import { checksBackgroundService } from './checks';
 import { collabService, collabUpgradeRoute } from './collab';
 import type { ServerConfig } from './config';
 
@@ -30,4 +31,5 @@ export interface Service {
 
 export const upgradeRoutes: UpgradeRoute[] = [collabUpgradeRoute];
 
-export const services: Service[] = [collabService];
+// The background checks read working copies through the collaboration service: it comes after.
+export const services: Service[] = [collabService, checksBackgroundService];

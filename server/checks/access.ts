@@ -1,0 +1,52 @@
+// How other parts of the server reach the background checks: run one now, wait until a
+// derivation's checks have settled, and hear when verdicts change (issue 6 mails the authors when
+// a claim that held now fails). The service registers the one implementation on globalThis, so
+// route handlers (bundled by Next.js as separate module copies) reach the same scheduler.
+import type { Status } from '../../flow/types';
+
+export interface VerdictChange {
+  stepId: string;
+  claimId: string;
+  kind: string;
+  /** The stored verdict before this run; null for a claim checked for the first time. */
+  before: Status | null;
+  after: Status;
+  /** The solver's message for the new verdict, in the document's words. */
+  message: string;
+}
+
+export interface VerdictsChanged {
+  derivationId: string;
+  checkedAt: Date;
+  /** The users whose edits led to this run (empty for a run asked for by hand or at start-up). */
+  userIds: string[];
+  /** Which steps each of those users' edits touched (a claim's own step, or its flow block's). */
+  edits: { userId: string; stepIds: string[] }[];
+  /** Claims whose verdict is new or differs from the stored one, in document order. */
+  changes: VerdictChange[];
+  /** Claims no longer in the document, with their last verdict. */
+  removed: { stepId: string; claimId: string; before: Status }[];
+}
+
+export interface ChecksAccess {
+  /** Checks the working copy now (after a run already going) and resolves once stored. */
+  recheckNow(derivationId: string): Promise<void>;
+  /** Resolves when no check of this derivation is waiting or running. */
+  whenSettled(derivationId: string): Promise<void>;
+  /** A check of this derivation is waiting for edits to pause, queued or running. */
+  isPending(derivationId: string): boolean;
+  /** Called after a stored run in which some verdict changed; returns the unsubscribe function. */
+  onVerdictsChanged(listener: (event: VerdictsChanged) => void): () => void;
+}
+
+const KEY = Symbol.for('marginalia.checks');
+type GlobalWithChecks = typeof globalThis & { [KEY]?: ChecksAccess };
+
+export function registerChecks(access: ChecksAccess | undefined): void {
+  (globalThis as GlobalWithChecks)[KEY] = access;
+}
+
+/** The running check service, or null outside a server started through server/index.ts. */
+export function checksService(): ChecksAccess | null {
+  return (globalThis as GlobalWithChecks)[KEY] ?? null;
+}
