@@ -1,0 +1,4 @@
+export { PlotFrame, PLOT_ACCENT, PLOT_INK, type PlotFrameProps } from './PlotFrame';
+export type { AxisScale, MarkerShape, PlotAxis, PlotMarker, PlotPoint, PlotSeries, ReadoutEntry, SeriesLook } from './types';
+export { decadeLabel, decadeTicks, domainOf, readoutNumber, tickLabel, type Domain } from './axes';
+export { standaloneSvg, svgFileName, downloadText } from './svgFile';
