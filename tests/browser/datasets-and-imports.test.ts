@@ -130,7 +130,7 @@ test('a .tex file imported from the derivations page opens as a derivation with 
     '\\begin{table}\\begin{tabular}{cc}1&2\\end{tabular}\\end{table}',
     '\\end{document}',
   ].join('\n');
-  await page.getByLabel('LaTeX file').setInputFiles({ name: 'fixed-point.tex', mimeType: 'text/x-tex', buffer: Buffer.from(tex) });
+  await page.getByLabel('LaTeX file', { exact: true }).setInputFiles({ name: 'fixed-point.tex', mimeType: 'text/x-tex', buffer: Buffer.from(tex) });
   await page.getByLabel('Title of the new derivation').fill('Imported fixed point');
   await page.getByRole('button', { name: 'Import' }).click();
   const leftOut = page.getByTestId('left-out');
