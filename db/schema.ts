@@ -359,3 +359,69 @@ export const claimTurnNotices = pgTable(
   },
   (t) => [index('claim_turn_notices_pending_idx').on(t.derivationId).where(sql`${t.mailedAt} is null`)],
 );
+
+// ---- versions: named snapshots of a derivation, locked versions and their share links ---------
+
+/**
+ * A named version of a derivation: a Yjs snapshot of the whole working copy (every root type,
+ * Y.encodeStateAsUpdate) with who saved it, when, the body it holds (ProseMirror JSON read from
+ * the snapshot) and the server's verdict on each of its claims at that moment. Numbered 1, 2, ...
+ * per derivation.
+ *
+ * A locked version additionally holds the check report of the lock's own run of every claim
+ * (stored as the exact JSON text that was hashed) and the SHA-256 over the snapshot and that
+ * report (server/versions/hash.ts defines the bytes). A trigger (migration 0007) refuses any
+ * UPDATE or DELETE of a locked row, so a locked version cannot change, whoever asks.
+ */
+export const derivationVersions = pgTable(
+  'derivation_versions',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    derivationId: uuid('derivation_id').notNull().references(() => derivations.id, { onDelete: 'restrict' }),
+    number: integer('number').notNull(),
+    name: text('name').notNull(),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'restrict' }),
+    createdAt: createdAt(),
+    /** Y.encodeStateAsUpdate of the working copy at the time. */
+    state: bytes('state').notNull(),
+    /** SHA-256 (hex) of the body's canonical JSON: equal text and blocks give equal hashes. */
+    contentSha256: text('content_sha256').notNull(),
+    /** The document body read from the state (ProseMirror JSON). */
+    body: jsonb('body').notNull(),
+    /** Each claim's verdict for this content: { checkedAt, summary, claims: [...] }. */
+    checks: jsonb('checks').notNull(),
+    lockedAt: timestamp('locked_at', { withTimezone: true }),
+    lockedBy: uuid('locked_by').references(() => users.id, { onDelete: 'restrict' }),
+    /** The check report of the lock, exactly the JSON text that was hashed. */
+    report: text('report'),
+    /** SHA-256 (hex) over the snapshot and the report. */
+    lockSha256: text('lock_sha256'),
+  },
+  (t) => [
+    uniqueIndex('derivation_versions_number_idx').on(t.derivationId, t.number),
+    // The same content is locked once.
+    uniqueIndex('derivation_versions_locked_content_idx').on(t.derivationId, t.contentSha256).where(sql`${t.lockedAt} is not null`),
+    index('derivation_versions_derivation_idx').on(t.derivationId, t.createdAt),
+  ],
+);
+
+/**
+ * A share link to a locked version: anyone holding the token reads that version, signed in or
+ * not. The token (32 random bytes) is kept only as its SHA-256; a link expires and can be revoked.
+ */
+export const shareLinks = pgTable(
+  'share_links',
+  {
+    id: uuid('id').primaryKey().defaultRandom(),
+    versionId: uuid('version_id').notNull().references(() => derivationVersions.id, { onDelete: 'restrict' }),
+    tokenHash: text('token_hash').notNull(),
+    /** A note for the lead's own list, e.g. who the link was made for. */
+    note: text('note').notNull().default(''),
+    createdBy: uuid('created_by').references(() => users.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+    expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+    revokedAt: timestamp('revoked_at', { withTimezone: true }),
+    revokedBy: uuid('revoked_by').references(() => users.id, { onDelete: 'set null' }),
+  },
+  (t) => [uniqueIndex('share_links_token_idx').on(t.tokenHash), index('share_links_version_idx').on(t.versionId, t.createdAt)],
+);
