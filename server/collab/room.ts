@@ -28,6 +28,8 @@ export interface Peer {
   role: Role;
   /** May change the text (the editText action); otherwise its updates are dropped. */
   canEdit: boolean;
+  /** Closed by the server (or the client): nothing more it sends is taken. */
+  readonly closed: boolean;
   send(message: Uint8Array): void;
   close(code: CloseCode, reason?: string): void;
 }
@@ -120,6 +122,7 @@ export class Room {
   }
 
   receive(peer: Peer, data: Uint8Array): void {
+    if (peer.closed) return;
     if (data.length > this.limits.maxMessageBytes) {
       peer.close(closeCodes.messageTooLarge);
       return;
