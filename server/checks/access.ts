@@ -2,7 +2,8 @@
 // derivation's checks have settled, and hear when verdicts change (issue 6 mails the authors when
 // a claim that held now fails). The service registers the one implementation on globalThis, so
 // route handlers (bundled by Next.js as separate module copies) reach the same scheduler.
-import type { Status } from '../../flow/types';
+import type { DocumentReading } from '../../flow/document';
+import type { ClaimResult, Status } from '../../flow/types';
 
 export interface VerdictChange {
   stepId: string;
@@ -28,7 +29,32 @@ export interface VerdictsChanged {
   removed: { stepId: string; claimId: string; before: Status }[];
 }
 
+/** One claim block of a document checked on demand (checkDocument), in document order. */
+export interface CheckedClaim {
+  stepId: string;
+  claimId: string;
+  position: number;
+  kind: string;
+  flowStepId: string | null;
+  /** Fingerprint of what was checked (the claim and its flow). */
+  inputHash: string;
+  result: ClaimResult;
+}
+
+export interface DocumentCheck {
+  reading: DocumentReading;
+  claims: CheckedClaim[];
+  /** The solver's time bound per claim (ms) of this run. */
+  timeLimitMs: number;
+}
+
 export interface ChecksAccess {
+  /**
+   * Checks the claims of a document (ProseMirror JSON, e.g. a version's body) now, in the check
+   * thread. With `reuseFrom` (a derivation id), claims unchanged since that derivation's stored
+   * run keep their stored result; without it every claim is run afresh (the lock). Stores nothing.
+   */
+  checkDocument(body: unknown, options?: { reuseFrom?: string }): Promise<DocumentCheck>;
   /** Checks the working copy now (after a run already going) and resolves once stored. */
   recheckNow(derivationId: string): Promise<void>;
   /** Resolves when no check of this derivation is waiting or running. */

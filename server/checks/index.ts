@@ -42,5 +42,5 @@ export const checksBackgroundService: Service = {
   },
 };
 
-export { checksService, type ChecksAccess, type VerdictChange, type VerdictsChanged } from './access';
+export { checksService, type ChecksAccess, type CheckedClaim, type DocumentCheck, type VerdictChange, type VerdictsChanged } from './access';
 export { checksView, type ChecksView } from './results';

@@ -7,7 +7,8 @@
 import { readDocument, type DocumentReading } from '../../flow/document';
 import type { ClaimResult } from '../../flow/types';
 import type { CollabAccess, DocumentChange } from '../collab/access';
-import type { ChecksAccess, VerdictChange, VerdictsChanged } from './access';
+import type { DocNode } from '../../flow/document';
+import type { ChecksAccess, DocumentCheck, VerdictChange, VerdictsChanged } from './access';
 import type { CheckThread, JobOutcome } from './checkThread';
 import { inDocumentWords, planChecks, type CheckPlan } from './plan';
 import { storeCheckRun, storedChecks, type ClaimToStore } from './results';
@@ -98,6 +99,14 @@ export class CheckScheduler implements ChecksAccess {
   isPending(derivationId: string): boolean {
     const slot = this.slots.get(derivationId);
     return Boolean(slot && (slot.timer || slot.queued || slot.running));
+  }
+
+  async checkDocument(body: unknown, options: { reuseFrom?: string } = {}): Promise<DocumentCheck> {
+    const reading = readDocument(body as DocNode);
+    const stored = options.reuseFrom ? await storedChecks(options.reuseFrom) : new Map();
+    const plan = planChecks(reading, stored);
+    const outcomes = await this.thread.run(plan.jobs.map((job) => ({ file: job.file, only: job.only })));
+    return { reading, claims: collect(plan, outcomes, reading), timeLimitMs: this.settings.timeLimitMs };
   }
 
   onVerdictsChanged(listener: (event: VerdictsChanged) => void): () => void {
