@@ -3,21 +3,12 @@
 // or left free, the fitted values with their uncertainties and the goodness of fit, and whether
 // the data agree with a claimed exponent within their errors. All numerics come from flow/fit.ts.
 import { useMemo, useState } from 'react';
-import { agreesWithExponent, evaluateFit, fitPowerLog, FitInputError, type ExponentAgreement, type PowerLogFit } from '@/flow/fit';
+import { agreesWithExponent, fitPowerLog, FitInputError, type ExponentAgreement, type PowerLogFit } from '@/flow/fit';
+import { PlotFrame, type PlotSeries } from '../plot';
 import { StatusWord, type CheckStatus } from '../StatusWord';
-import { DataPlot, sampleCurve, type Curve, type DataPoint } from './DataPlot';
+import { axisLabel, datasetPlotSeries, drawnStride, fitPlotSeries, type SeriesInput } from './series';
 
-export interface SeriesInput {
-  name: string;
-  x: { quantity: string; unit: string; values: number[] };
-  y: { quantity: string; unit: string; values: number[] };
-  sigma: { values: number[] } | null;
-}
-
-/** Most points a plot draws; the fit always uses every point. */
-const MAX_DRAWN = 2000;
-
-const label = (axis: { quantity: string; unit: string }) => (axis.unit ? `${axis.quantity} [${axis.unit}]` : axis.quantity);
+export type { SeriesInput };
 
 export function formatNumber(v: number, digits = 4): string {
   if (!Number.isFinite(v)) return String(v);
@@ -77,7 +68,8 @@ export function AgreementVerdict({ agreement }: { agreement: ExponentAgreement }
   );
 }
 
-export function FitPanel({ series, predictions = [] }: { series: SeriesInput; predictions?: Curve[] }) {
+/** The dataset drawn with its error bars (beside any predicted curves) and fitted; `predictions` are series of the plot frame. */
+export function FitPanel({ series, predictions = [] }: { series: SeriesInput; predictions?: PlotSeries[] }) {
   const n = series.x.values.length;
   const positive = series.x.values.every((v) => v > 0) && series.y.values.every((v) => v > 0);
   const span = (values: number[]) => Math.max(...values) / Math.min(...values);
@@ -124,40 +116,32 @@ export function FitPanel({ series, predictions = [] }: { series: SeriesInput; pr
     }
   }, [data, claim, a, p]);
 
-  const points = useMemo<DataPoint[]>(() => {
-    const step = Math.max(1, Math.ceil(n / MAX_DRAWN));
-    const out: DataPoint[] = [];
-    for (let i = 0; i < n; i += step) out.push({ x: series.x.values[i]!, y: series.y.values[i]!, sigma: series.sigma?.values[i] ?? null });
-    return out;
-  }, [series, n]);
-
-  const curves = useMemo<Curve[]>(() => {
-    const out = [...predictions];
-    if ('fit' in fit) {
-      const xs = series.x.values;
-      const from = Math.min(...xs);
-      const to = Math.max(...xs);
-      out.push({ name: 'fit', kind: 'fit', points: sampleCurve((x) => evaluateFit(fit.fit, x), from, to, logX && from > 0) });
-    }
+  const plotted = useMemo<PlotSeries[]>(() => {
+    const out: PlotSeries[] = [datasetPlotSeries(series), ...predictions];
+    if ('fit' in fit) out.push(fitPlotSeries(fit.fit, series.x.values, logX));
     return out;
   }, [fit, predictions, series, logX]);
+  const stride = drawnStride(n);
 
   return (
     <div className="flex flex-col gap-4">
-      <div className="flex flex-wrap gap-5 text-base">
-        <label className="inline-flex items-center gap-1">
-          <input type="checkbox" checked={logX} disabled={!positive} onChange={(e) => setLogX(e.target.checked)} /> logarithmic x
-        </label>
-        <label className="inline-flex items-center gap-1">
-          <input type="checkbox" checked={logY} disabled={!positive} onChange={(e) => setLogY(e.target.checked)} /> logarithmic y
-        </label>
-      </div>
-      <DataPlot points={points} curves={curves} dataName={series.name} xLabel={label(series.x)} yLabel={label(series.y)} logX={logX} logY={logY} />
-      {points.length < n && (
-        <p className="text-sm text-ink-faint">
-          Drawn: every {Math.ceil(n / MAX_DRAWN)}th of {n.toLocaleString('en-GB')} points; the fit uses them all.
-        </p>
-      )}
+      <PlotFrame
+        title={`${axisLabel(series.y)} against ${axisLabel(series.x)}`}
+        x={{ label: axisLabel(series.x), scale: logX ? 'log' : 'linear' }}
+        y={{ label: axisLabel(series.y), scale: logY ? 'log' : 'linear' }}
+        series={plotted}
+        notes={stride > 1 ? [`Drawn: every ${stride}th of ${n.toLocaleString('en-GB')} points; the fit uses them all.`] : []}
+        actions={
+          <span className="flex gap-3 text-sm">
+            <label className="inline-flex items-center gap-1">
+              <input type="checkbox" checked={logX} disabled={!positive} onChange={(e) => setLogX(e.target.checked)} /> log x
+            </label>
+            <label className="inline-flex items-center gap-1">
+              <input type="checkbox" checked={logY} disabled={!positive} onChange={(e) => setLogY(e.target.checked)} /> log y
+            </label>
+          </span>
+        }
+      />
 
       <section aria-label="Fit" className="rounded border border-rule bg-white/40 p-4">
         <h3 className="mb-2 text-xl">
