@@ -8,6 +8,7 @@ import type { Duplex } from 'node:stream';
 import { checksBackgroundService } from './checks';
 import { collabService, collabUpgradeRoute } from './collab';
 import type { ServerConfig } from './config';
+import { reviewBackgroundService } from './review/service';
 
 export interface ServerContext {
   config: ServerConfig;
@@ -32,4 +33,5 @@ export interface Service {
 export const upgradeRoutes: UpgradeRoute[] = [collabUpgradeRoute];
 
 // The background checks read working copies through the collaboration service: it comes after.
-export const services: Service[] = [collabService, checksBackgroundService];
+// Review hears both (document changes for sign-offs, verdict changes for mail): it comes last.
+export const services: Service[] = [collabService, checksBackgroundService, reviewBackgroundService];
