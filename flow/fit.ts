@@ -82,6 +82,7 @@ interface Prepared {
   lnx: Float64Array;
   lnL: Float64Array;
   y: Float64Array;
+  lnY: Float64Array;
   s: Float64Array;
   sign: number;
   weighted: boolean;
@@ -95,6 +96,7 @@ function prepare(data: FitData, spec: FitSpec): Prepared {
   const lnx = new Float64Array(n);
   const lnL = new Float64Array(n);
   const y = new Float64Array(n);
+  const lnY = new Float64Array(n);
   const s = new Float64Array(n);
   let sign = 0;
   for (let i = 0; i < n; i++) {
@@ -112,9 +114,10 @@ function prepare(data: FitData, spec: FitSpec): Prepared {
     if (usesLog && L === 0) throw new FitInputError(`|ln x| is zero at x = 1 (point ${i + 1}), where |ln x|^p is not defined.`, i);
     lnL[i] = L === 0 ? 0 : Math.log(L);
     y[i] = yi;
+    lnY[i] = Math.log(Math.abs(yi));
     s[i] = si;
   }
-  return { lnx, lnL, y, s, sign, weighted: !!data.sigma };
+  return { lnx, lnL, y, lnY, s, sign, weighted: !!data.sigma };
 }
 
 // ---- small dense linear algebra (at most 3 x 3) ------------------------------------------------
@@ -175,58 +178,64 @@ function unpack(theta: readonly number[], layout: Layout): { lnA: number; a: num
   return { lnA: theta[0]!, a, p };
 }
 
-/** Model value (in the fit's scale) and its derivatives with respect to the free parameters at one point. */
-function modelAt(d: Prepared, i: number, theta: readonly number[], layout: Layout, scale: Scale) {
-  const { lnA, a, p } = unpack(theta, layout);
-  const logValue = lnA + a * d.lnx[i]! + p * d.lnL[i]!;
-  const derivatives = [1];
-  if (layout.freeA) derivatives.push(d.lnx[i]!);
-  if (layout.freeP) derivatives.push(d.lnL[i]!);
-  if (scale !== 'linear') return { value: logValue, derivatives };
-  const value = d.sign * Math.exp(logValue);
-  return { value, derivatives: derivatives.map((g) => g * value) };
-}
-
-/**
- * The observation in the fit's scale and its error. In 'log' the error of ln y is sigma/y; without
- * error bars every ln y weighs the same. 'start' is the log fit that starts a linear one: weighted
- * as the linear fit will weigh (sigma/y, with sigma = 1 without error bars).
- */
-function observed(d: Prepared, i: number, scale: Scale): { value: number; sigma: number } {
-  if (scale === 'linear') return { value: d.y[i]!, sigma: d.s[i]! };
-  const lnY = Math.log(Math.abs(d.y[i]!));
-  if (scale === 'log' && !d.weighted) return { value: lnY, sigma: 1 };
-  return { value: lnY, sigma: d.s[i]! / Math.abs(d.y[i]!) };
-}
-
 type Scale = 'linear' | 'log' | 'start';
 
-function chiSquareOf(d: Prepared, theta: readonly number[], layout: Layout, scale: Scale): number {
+/**
+ * chi^2 at theta and, when asked, the normal equations JᵀWJ and JᵀW r, in one pass without
+ * allocating per point (a dataset may hold a million rows). The observation in the fit's scale:
+ * y itself ('linear'); ln|y| with error sigma/|y| ('log'), every ln y weighing the same without
+ * error bars; 'start' is the log fit that starts a linear one, weighted as the linear fit will weigh.
+ */
+function accumulate(d: Prepared, theta: readonly number[], layout: Layout, scale: Scale, normal?: { JtJ: number[][]; Jtr: number[] }): number {
+  const { lnA, a, p } = unpack(theta, layout);
+  const k = theta.length;
+  const g = new Float64Array(3);
   let chi2 = 0;
   for (let i = 0; i < d.y.length; i++) {
-    const o = observed(d, i, scale);
-    const r = (o.value - modelAt(d, i, theta, layout, scale).value) / o.sigma;
-    chi2 += r * r;
+    const logValue = lnA + a * d.lnx[i]! + p * d.lnL[i]!;
+    let value: number;
+    let obs: number;
+    let sigma: number;
+    let scaleFactor = 1;
+    if (scale === 'linear') {
+      value = d.sign * Math.exp(logValue);
+      scaleFactor = value;
+      obs = d.y[i]!;
+      sigma = d.s[i]!;
+    } else {
+      value = logValue;
+      obs = d.lnY[i]!;
+      sigma = scale === 'log' && !d.weighted ? 1 : d.s[i]! / Math.abs(d.y[i]!);
+    }
+    const w = 1 / (sigma * sigma);
+    const r = obs - value;
+    chi2 += w * r * r;
+    if (!normal) continue;
+    let j = 0;
+    g[j++] = scaleFactor;
+    if (layout.freeA) g[j++] = d.lnx[i]! * scaleFactor;
+    if (layout.freeP) g[j++] = d.lnL[i]! * scaleFactor;
+    for (let u = 0; u < k; u++) {
+      const wu = w * g[u]!;
+      normal.Jtr[u]! += wu * r;
+      const row = normal.JtJ[u]!;
+      for (let v = 0; v <= u; v++) row[v]! += wu * g[v]!;
+    }
   }
+  if (normal) for (let u = 0; u < k; u++) for (let v = u + 1; v < k; v++) normal.JtJ[u]![v] = normal.JtJ[v]![u]!;
   return chi2;
+}
+
+function chiSquareOf(d: Prepared, theta: readonly number[], layout: Layout, scale: Scale): number {
+  return accumulate(d, theta, layout, scale);
 }
 
 /** JᵀWJ and JᵀW r at theta. */
 function normalEquations(d: Prepared, theta: readonly number[], layout: Layout, scale: Scale) {
   const k = theta.length;
-  const JtJ = Array.from({ length: k }, () => new Array<number>(k).fill(0));
-  const Jtr = new Array<number>(k).fill(0);
-  for (let i = 0; i < d.y.length; i++) {
-    const o = observed(d, i, scale);
-    const m = modelAt(d, i, theta, layout, scale);
-    const w = 1 / (o.sigma * o.sigma);
-    const r = o.value - m.value;
-    for (let u = 0; u < k; u++) {
-      Jtr[u]! += w * m.derivatives[u]! * r;
-      for (let v = 0; v < k; v++) JtJ[u]![v]! += w * m.derivatives[u]! * m.derivatives[v]!;
-    }
-  }
-  return { JtJ, Jtr };
+  const normal = { JtJ: Array.from({ length: k }, () => new Array<number>(k).fill(0)), Jtr: new Array<number>(k).fill(0) };
+  accumulate(d, theta, layout, scale, normal);
+  return normal;
 }
 
 const MAX_ITERATIONS = 200;

@@ -6,7 +6,7 @@ import { useMemo, useState } from 'react';
 import { agreesWithExponent, fitPowerLog, FitInputError, type ExponentAgreement, type PowerLogFit } from '@/flow/fit';
 import { PlotFrame, type PlotSeries } from '../plot';
 import { StatusWord, type CheckStatus } from '../StatusWord';
-import { axisLabel, datasetPlotSeries, drawnStride, fitPlotSeries, type SeriesInput } from './series';
+import { axisLabel, datasetPlotSeries, drawnStride, fitPlotSeries, rangeOf, type SeriesInput } from './series';
 
 export type { SeriesInput };
 
@@ -72,7 +72,10 @@ export function AgreementVerdict({ agreement }: { agreement: ExponentAgreement }
 export function FitPanel({ series, predictions = [] }: { series: SeriesInput; predictions?: PlotSeries[] }) {
   const n = series.x.values.length;
   const positive = series.x.values.every((v) => v > 0) && series.y.values.every((v) => v > 0);
-  const span = (values: number[]) => Math.max(...values) / Math.min(...values);
+  const span = (values: number[]) => {
+    const [lo, hi] = rangeOf(values);
+    return hi / lo;
+  };
   const [logX, setLogX] = useState(positive && span(series.x.values) > 20);
   const [logY, setLogY] = useState(positive && span(series.y.values) > 20);
   const [a, setA] = useState<ExponentChoice>({ free: true, value: '1' });

@@ -45,9 +45,19 @@ export function sampleCurve(fn: (x: number) => number, from: number, to: number,
   return out;
 }
 
+/** Smallest and largest value, by a loop (spreading a million values into Math.min overflows the stack). */
+export function rangeOf(values: readonly number[]): [number, number] {
+  let lo = Infinity;
+  let hi = -Infinity;
+  for (const v of values) {
+    if (v < lo) lo = v;
+    if (v > hi) hi = v;
+  }
+  return [lo, hi];
+}
+
 /** The fitted law over the data's range of x, as a dashed curve. */
 export function fitPlotSeries(fit: PowerLogFit, xs: readonly number[], log: boolean, id = 'fit'): PlotSeries {
-  const from = Math.min(...xs);
-  const to = Math.max(...xs);
+  const [from, to] = rangeOf(xs);
   return { id, name: 'fit', look: 'dashed', points: sampleCurve((x) => evaluateFit(fit, x), from, to, log && from > 0) };
 }
