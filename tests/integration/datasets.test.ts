@@ -308,6 +308,16 @@ describe('who may upload and who may see', () => {
     for (const path of [`/${mine.body.id}`, `/${mine.body.id}/columns`, `/${mine.body.id}/download`]) {
       expect((await outsider.get(`/api/groups/${outsiderGroupId}/datasets${path}`)).status).toBe(404);
     }
+    // Through a derivation: only the datasets of that derivation's group.
+    const outsiderDerivation = await outsider.post<{ id: string }>(`/api/groups/${outsiderGroupId}/derivations`, { title: 'Their notes' });
+    expect((await outsider.get(`/api/derivations/${outsiderDerivation.body.id}/datasets/${mine.body.id}/columns`)).status).toBe(404);
+    expect((await outsider.get(`/api/derivations/${demo.derivationId}/datasets/${mine.body.id}/columns`)).status).toBe(403);
+    const viaDerivation = await demo.as.reader.get<{ groupId: string; datasets: Summary[] }>(`/api/derivations/${demo.derivationId}/datasets`);
+    expect(viaDerivation.body.groupId).toBe(demo.groupId);
+    expect(viaDerivation.body.datasets.map((d) => d.id)).toContain(mine.body.id);
+    expect(viaDerivation.body.datasets.map((d) => d.id)).not.toContain(theirs.body.id);
+    const columns = await demo.as.reader.get<Series>(`/api/derivations/${demo.derivationId}/datasets/${mine.body.id}/columns`);
+    expect(columns.body.x.values).toEqual([16, 32, 64, 128, 256]);
     // And the other way round.
     expect((await demo.as.lead.get(`/api/groups/${demo.groupId}/datasets/${theirs.body.id}`)).status).toBe(404);
     expect((await listOf(demo.as.lead)).map((d) => d.id)).not.toContain(theirs.body.id);
