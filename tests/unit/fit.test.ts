@@ -4,6 +4,7 @@
 import { describe, expect, test } from 'vitest';
 import { agreesWithExponent, chiSquareSurvival, evaluateFit, fitPowerLog, FitInputError, powerLog } from '../../flow/fit';
 import { generator } from '../../flow/numerics/random';
+import { datasetVerdicts } from '../../components/datasets/attach';
 
 /** Standard normal deviates by Box–Muller from a fixed random start. */
 function normals(start: number): () => number {
@@ -223,5 +224,40 @@ describe('data the law cannot take', () => {
     expectRefusal(() => fitPowerLog({ x: [2, 3, 4], y: [1, 2, 3], sigma: [0.1, 0, 0.1] }, { p: 0 }), /greater than zero; point 2/, 1);
     expectRefusal(() => fitPowerLog({ x: [2, 3], y: [1, 2] }, { p: 0 }), /needs at least 3 points without error bars/, null);
     expectRefusal(() => fitPowerLog({ x: [2, 2, 2, 2], y: [1, 1.1, 0.9, 1] }), /cannot/, null);
+  });
+});
+
+describe('a log-exponent claim judged by an attached dataset', () => {
+  // The claim reads O ~ t^-x |ln t|^p; for the n = 0 susceptibility x = 1 and p = 1/4 (REFERENCES.md,
+  // Wegner and Riedel 1973; from memory). Data drawn from that law, with 0.5% error bars.
+  const ts = geometric(1e-9, 1e-2, 28);
+  const data = drawn({ A: 2, a: -1, p: 0.25 }, ts, 0.005, normals(99));
+  const series = {
+    name: 'susceptibility',
+    x: { quantity: 'reduced temperature t', unit: '', values: data.x },
+    y: { quantity: 'susceptibility', unit: '', values: data.y },
+    sigma: { values: data.sigma },
+  };
+
+  test('the claimed x = 1 and p = 1/4 both agree, each tested with the other held at its claimed value', () => {
+    const verdicts = datasetVerdicts(series, { power: 1, logPower: 0.25 });
+    expect(verdicts.error).toBeNull();
+    expect(verdicts.agreements.map((v) => [v.parameter, v.claimed, v.verdict])).toEqual([
+      ['p', 0.25, 'agrees'],
+      ['a', -1, 'agrees'],
+    ]);
+    expect(verdicts.claimedFit?.A.value).toBeCloseTo(2, 1);
+  });
+
+  test('a claimed p = 1/2 disagrees with the same data; a claim of x alone leaves p free', () => {
+    expect(datasetVerdicts(series, { power: 1, logPower: 0.5 }).agreements[0]!.verdict).toBe('disagrees');
+    const xOnly = datasetVerdicts(series, { power: 1 });
+    expect(xOnly.agreements).toHaveLength(1);
+    expect(xOnly.agreements[0]!.free.p.held).toBe(false);
+  });
+
+  test('data the law cannot take are reported, not thrown', () => {
+    const bad = { ...series, x: { ...series.x, values: [-1, ...series.x.values.slice(1)] } };
+    expect(datasetVerdicts(bad, { logPower: 0.25 }).error).toMatch(/positive/);
   });
 });

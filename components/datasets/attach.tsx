@@ -1,0 +1,179 @@
+'use client';
+// Attaching a dataset of the group to a block: a picker, the dataset's numbers, and the evidence
+// a log-exponent claim shows — whether the data agree with the claimed exponents within their
+// errors, with the data drawn beside the fitted law. The routes go through the derivation, which
+// a block knows (its group it need not).
+import { useEffect, useId, useMemo, useState } from 'react';
+import { agreesWithExponent, fitPowerLog, FitInputError, type ExponentAgreement, type PowerLogFit } from '@/flow/fit';
+import { PlotFrame, type PlotSeries } from '../plot';
+import { AgreementVerdict, formatNumber } from './FitPanel';
+import { axisLabel, datasetPlotSeries, fitPlotSeries, rangeOf, type SeriesInput } from './series';
+
+export interface DatasetChoice {
+  id: string;
+  name: string;
+  rowCount: number;
+  hasErrorBars: boolean;
+}
+
+type Loaded<T> = { state: 'loading' } | { state: 'error'; message: string } | { state: 'ready'; value: T };
+
+async function getJson<T>(path: string, signal: AbortSignal): Promise<T> {
+  const response = await fetch(path, { credentials: 'same-origin', signal });
+  const payload = (await response.json().catch(() => null)) as (T & { error?: string }) | null;
+  if (!response.ok || !payload) throw new Error(payload?.error ?? `The server answered ${response.status}.`);
+  return payload;
+}
+
+function useJson<T>(path: string | null): Loaded<T> | null {
+  const [loaded, setLoaded] = useState<Loaded<T> | null>(null);
+  useEffect(() => {
+    if (!path) {
+      setLoaded(null);
+      return;
+    }
+    const controller = new AbortController();
+    setLoaded({ state: 'loading' });
+    getJson<T>(path, controller.signal)
+      .then((value) => setLoaded({ state: 'ready', value }))
+      .catch((error: unknown) => {
+        if (!controller.signal.aborted) setLoaded({ state: 'error', message: error instanceof Error ? error.message : 'Loading failed.' });
+      });
+    return () => controller.abort();
+  }, [path]);
+  return loaded;
+}
+
+/** The datasets of the derivation's group. */
+export function useDerivationDatasets(derivationId: string): Loaded<DatasetChoice[]> | null {
+  const loaded = useJson<{ datasets: DatasetChoice[] }>(`/api/derivations/${derivationId}/datasets`);
+  if (!loaded || loaded.state !== 'ready') return loaded;
+  return { state: 'ready', value: loaded.value.datasets };
+}
+
+/** One dataset's x, y and error bars (null id: nothing attached). */
+export function useDatasetSeries(derivationId: string, datasetId: string | null): Loaded<SeriesInput> | null {
+  return useJson<SeriesInput>(datasetId ? `/api/derivations/${derivationId}/datasets/${datasetId}/columns` : null);
+}
+
+/** "Dataset beside the flow": none, or one of the group's datasets. Read-only roles see the choice but cannot change it. */
+export function AttachDatasetPicker({
+  derivationId,
+  datasetId,
+  onChange,
+  disabled = false,
+  label = 'Dataset beside the flow',
+}: {
+  derivationId: string;
+  datasetId: string | null;
+  onChange: (datasetId: string | null) => void;
+  disabled?: boolean;
+  label?: string;
+}) {
+  const id = useId();
+  const datasets = useDerivationDatasets(derivationId);
+  const choices = datasets?.state === 'ready' ? datasets.value : [];
+  const missing = datasetId !== null && datasets?.state === 'ready' && !choices.some((d) => d.id === datasetId);
+  return (
+    <span className="inline-flex flex-wrap items-center gap-2 text-sm">
+      <label htmlFor={id} className="text-ink-soft">
+        {label}
+      </label>
+      <select
+        id={id}
+        value={datasetId ?? ''}
+        disabled={disabled || datasets?.state !== 'ready'}
+        onChange={(e) => onChange(e.target.value || null)}
+        className="rounded border border-rule bg-white/70 px-2 py-0.5"
+      >
+        <option value="">none</option>
+        {choices.map((d) => (
+          <option key={d.id} value={d.id}>
+            {d.name} ({d.rowCount} rows{d.hasErrorBars ? ', error bars' : ''})
+          </option>
+        ))}
+        {missing && <option value={datasetId}>a dataset that is no longer there</option>}
+      </select>
+      {datasets?.state === 'error' && <span role="alert" className="text-verdict-fails">{datasets.message}</span>}
+    </span>
+  );
+}
+
+/** The attached dataset as plot-frame series (points with error bars), for a plot that already draws the flow. */
+export function useDatasetOverlay(derivationId: string, datasetId: string | null): { series: PlotSeries[]; note: string | null } {
+  const loaded = useDatasetSeries(derivationId, datasetId);
+  return useMemo(() => {
+    if (!loaded) return { series: [], note: null };
+    if (loaded.state === 'loading') return { series: [], note: 'Loading the dataset…' };
+    if (loaded.state === 'error') return { series: [], note: `The dataset could not be loaded: ${loaded.message}` };
+    return { series: [datasetPlotSeries(loaded.value, `dataset-${datasetId}`)], note: null };
+  }, [loaded, datasetId]);
+}
+
+export interface ClaimedLaw {
+  /** Claimed x in O ~ t^-x |ln t|^p, if the claim states it. */
+  power?: number | null;
+  /** Claimed p, if the claim states it. */
+  logPower?: number | null;
+}
+
+export interface DatasetVerdicts {
+  agreements: ExponentAgreement[];
+  /** The law with the claimed exponents held (amplitude fitted), to draw beside the data. */
+  claimedFit: PowerLogFit | null;
+  error: string | null;
+}
+
+/**
+ * Whether the data agree with a claim O ~ t^-x |ln t|^p: each claimed exponent tested with the other
+ * held at its claimed value (or free when the claim leaves it open). In the fit's terms a = -x.
+ */
+export function datasetVerdicts(series: SeriesInput, law: ClaimedLaw): DatasetVerdicts {
+  const data = { x: series.x.values, y: series.y.values, sigma: series.sigma?.values ?? null };
+  const a = law.power == null ? null : -law.power;
+  const p = law.logPower ?? null;
+  try {
+    const agreements: ExponentAgreement[] = [];
+    if (p !== null) agreements.push(agreesWithExponent(data, 'p', p, { other: a }));
+    if (a !== null) agreements.push(agreesWithExponent(data, 'a', a, { other: p }));
+    const claimedFit = a !== null || p !== null ? fitPowerLog(data, { a, p }) : null;
+    return { agreements, claimedFit, error: null };
+  } catch (error) {
+    if (error instanceof FitInputError) return { agreements: [], claimedFit: null, error: error.message };
+    throw error;
+  }
+}
+
+/** The evidence of a log-exponent claim from an attached dataset: verdicts, and the data drawn beside the claimed law. */
+export function DatasetEvidence({ derivationId, datasetId, law }: { derivationId: string; datasetId: string; law: ClaimedLaw }) {
+  const loaded = useDatasetSeries(derivationId, datasetId);
+  const verdicts = useMemo(() => (loaded?.state === 'ready' ? datasetVerdicts(loaded.value, law) : null), [loaded, law]);
+  if (!loaded || loaded.state === 'loading') return <p className="text-ink-faint" role="status">Loading the dataset…</p>;
+  if (loaded.state === 'error') return <p role="alert" className="text-verdict-fails">The dataset could not be loaded: {loaded.message}</p>;
+  const series = loaded.value;
+  const positive = series.x.values.every((v) => v > 0) && series.y.values.every((v) => v > 0);
+  const [lo, hi] = rangeOf(series.x.values);
+  const log = positive && hi / lo > 20;
+  const drawn: PlotSeries[] = [datasetPlotSeries(series)];
+  if (verdicts?.claimedFit) drawn.push({ ...fitPlotSeries(verdicts.claimedFit, series.x.values, log, 'claimed-law'), name: 'claimed law, amplitude fitted' });
+  return (
+    <section aria-label="Evidence from the dataset" className="flex flex-col gap-2" data-testid="dataset-evidence">
+      <h4 className="font-semibold">Data: {series.name}</h4>
+      {verdicts?.error && <p role="alert" className="text-verdict-fails">{verdicts.error}</p>}
+      {verdicts?.agreements.map((agreement) => <AgreementVerdict key={agreement.parameter} agreement={agreement} />)}
+      {verdicts?.claimedFit && (
+        <p className="text-sm text-ink-soft">
+          Claimed law with its amplitude fitted: χ²/dof = {formatNumber(verdicts.claimedFit.reducedChi2, 3)}
+          {verdicts.claimedFit.pValue !== null && <>, p-value {formatNumber(verdicts.claimedFit.pValue, 3)}</>}.
+        </p>
+      )}
+      <PlotFrame
+        title={`${axisLabel(series.y)} against ${axisLabel(series.x)}`}
+        x={{ label: axisLabel(series.x), scale: log ? 'log' : 'linear' }}
+        y={{ label: axisLabel(series.y), scale: log ? 'log' : 'linear' }}
+        series={drawn}
+        height={260}
+      />
+    </section>
+  );
+}
