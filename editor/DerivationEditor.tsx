@@ -66,6 +66,8 @@ function Toolbar({ editor }: { editor: Editor }) {
       <span className="mx-1 h-4 w-px bg-rule" aria-hidden="true" />
       <Tool label="Inline math" keys="type $…$" onPress={run((c) => c.insertInlineMath())} />
       <Tool label="Display math" keys="type $$ and a space" onPress={run((c) => c.insertDisplayMath())} />
+      <span className="mx-1 h-4 w-px bg-rule" aria-hidden="true" />
+      <Tool label="Trajectory plot" onPress={run((c) => c.insertTrajectoryPlot())} />
     </div>
   );
 }

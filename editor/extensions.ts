@@ -7,6 +7,7 @@ import CollaborationCaret from '@tiptap/extension-collaboration-caret';
 import StarterKit from '@tiptap/starter-kit';
 import type { Awareness } from 'y-protocols/awareness';
 import type * as Y from 'yjs';
+import { plotBlockExtensions } from './blocks/plotBlock';
 import { MathDisplay, MathInline } from './math';
 import type { PresenceUser } from './presence';
 import { StepIds } from './stepIds';
@@ -47,6 +48,7 @@ export function derivationExtensions({ doc, provider, user }: EditorBinding): An
     StepIds,
     MathInline,
     MathDisplay,
+    ...plotBlockExtensions,
     Collaboration.configure({ document: doc, field: bodyField }),
     CollaborationCaret.configure({
       provider,
