@@ -150,3 +150,29 @@ export function claimsTurnedFailingMail(input: {
     reason: 'You get this mail because you are an author of this derivation. Claims that turn within a few minutes come in one mail.',
   });
 }
+
+export function versionLockedMail(input: {
+  lockedBy: string;
+  derivationTitle: string;
+  groupName: string;
+  versionNumber: number;
+  versionName: string;
+  claims: number;
+  sha256: string;
+  link: string;
+}): MailContent {
+  return composeMail({
+    subject: `${input.lockedBy} locked version ${input.versionNumber} of "${input.derivationTitle}"`,
+    blocks: [
+      {
+        paragraph:
+          `${input.lockedBy} locked version ${input.versionNumber} ("${input.versionName}") of "${input.derivationTitle}" (${input.groupName}). ` +
+          `The server checked every claim again: all ${input.claims} ${plural(input.claims, 'claim holds', 'claims hold')}.`,
+      },
+      { paragraph: `SHA-256 of the locked version (snapshot and check report):\n${input.sha256}` },
+      { paragraph: 'The locked version no longer changes; work goes on in the working copy.' },
+    ],
+    link: { href: input.link, label: 'Open the locked version' },
+    reason: `You get this mail because you are a member of ${input.groupName}.`,
+  });
+}

@@ -1,7 +1,7 @@
 // Errors a route handler (or the code it calls) throws to answer the user. The route wrapper turns
 // them into JSON `{ error, field? }` with the status; anything else becomes a plain 500.
 /** 503: a service we depend on (the SMTP server) is unreachable; the request changed nothing. */
-export type ApiStatus = 400 | 401 | 403 | 404 | 409 | 429 | 503;
+export type ApiStatus = 400 | 401 | 403 | 404 | 409 | 410 | 429 | 503;
 
 export class ApiError extends Error {
   constructor(
