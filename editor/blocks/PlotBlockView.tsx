@@ -119,7 +119,8 @@ function readStarts(node: ProseMirrorNode, couplings: readonly string[]): { capt
       caption ||= text;
       return;
     }
-    if (text === '') {
+    // Without a flow to follow there is nothing to read a start against (the plot says so).
+    if (text === '' || couplings.length === 0) {
       starts.push({ text, start: null, problem: null });
       return;
     }
