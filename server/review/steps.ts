@@ -69,6 +69,10 @@ export function excerptOf(node: DocNode): string {
     const name = fieldText(node, 'name');
     return shorten(`Claim${name ? ` "${name}"` : ''} (${label.toLowerCase()})`);
   }
+  if (node.type === 'trajectoryPlot') {
+    const caption = fieldText(node, 'caption');
+    return shorten(`Trajectory plot${caption ? ` "${caption}"` : ''}`);
+  }
   const text = shorten(plainText(node));
   if (text) return text;
   return node.type === 'paragraph' ? '(an empty paragraph)' : `(${node.type})`;
