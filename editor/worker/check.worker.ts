@@ -1,0 +1,50 @@
+// The check worker: runs claims with flow/, one at a time, posting each result as it comes. A new
+// list of items replaces what is queued (an edit supersedes older checks); between two claims it
+// yields so that such a list can arrive. A claim that runs long is stopped by the page ending
+// this worker and starting a fresh one.
+import { runItem } from './checkLogic';
+import type { CheckAnswer, CheckItem, CheckRequest } from './protocol';
+
+interface Scope {
+  postMessage(message: CheckAnswer): void;
+  onmessage: ((event: { data: CheckRequest }) => void) | null;
+}
+const scope = self as unknown as Scope;
+
+let queue: CheckItem[] = [];
+let pumping = false;
+
+function nextTurn(): Promise<void> {
+  return new Promise((resolve) => {
+    const channel = new MessageChannel();
+    channel.port1.onmessage = () => {
+      channel.port1.close();
+      resolve();
+    };
+    channel.port2.postMessage(null);
+  });
+}
+
+async function pump(): Promise<void> {
+  if (pumping) return;
+  pumping = true;
+  try {
+    for (;;) {
+      await nextTurn();
+      const item = queue.shift();
+      if (!item) break;
+      scope.postMessage({ type: 'started', ticket: item.ticket });
+      scope.postMessage({ type: 'result', ticket: item.ticket, result: runItem(item) });
+    }
+  } finally {
+    pumping = false;
+  }
+}
+
+scope.onmessage = ({ data }) => {
+  if (data?.type !== 'run' || !Array.isArray(data.items)) return;
+  queue = [...data.items];
+  void pump();
+};
+
+scope.postMessage({ type: 'ready' });

@@ -1,0 +1,49 @@
+// What the check worker does with one item: run its claim with flow/ and say the solver's places
+// ("claims[0].near") in the block's own words. Never throws: the runner catches what checks throw,
+// and anything else becomes an inconclusive result naming what happened.
+import { checkClaims } from '@/flow';
+import { describeInDocument, type CheckGroup, type ClaimReading, type DocumentReading } from '@/flow/document';
+import type { ClaimResult } from '@/flow/types';
+import type { CheckItem } from './protocol';
+
+export function runItem(item: CheckItem): ClaimResult {
+  const claim = item.file.claims[0] as { id?: unknown };
+  const id = typeof claim?.id === 'string' ? claim.id : item.stepId;
+  let result: ClaimResult;
+  try {
+    const report = checkClaims(item.file, { timeLimitMs: item.timeLimitMs, tight: item.tight });
+    result = report.claims[0] ?? stoppedResult(id, item.kind, 'the solver returned no result for this claim');
+  } catch (error) {
+    result = stoppedResult(id, item.kind, `the check stopped unexpectedly: ${error instanceof Error ? error.message : String(error)}`);
+  }
+  return { ...result, message: inDocumentWords(result.message, item) };
+}
+
+function inDocumentWords(message: string, item: CheckItem): string {
+  const reading = {
+    flows: [],
+    claims: [{ stepId: item.stepId, number: item.number, kind: item.kind } as ClaimReading],
+    groups: [],
+  } as DocumentReading;
+  const group = { key: '', flowStepId: null, file: item.file, claimStepIds: [item.stepId] } as CheckGroup;
+  return describeInDocument(message, reading, group);
+}
+
+export function stoppedResult(id: string, kind: string, message: string, method = 'stopped'): ClaimResult {
+  return {
+    id,
+    kind,
+    status: 'inconclusive',
+    measured: null,
+    uncertainty: null,
+    expected: null,
+    tolerance: null,
+    message,
+    method,
+    settings: {},
+    stats: {},
+    ms: 0,
+    sanity: [],
+    evidence: {},
+  };
+}
