@@ -6,11 +6,13 @@
 import type { Node as ProseMirrorNode } from '@tiptap/pm/model';
 import { NodeViewContent, NodeViewWrapper, type NodeViewProps } from '@tiptap/react';
 import { useEffect, useMemo, useRef, useState } from 'react';
+import { AttachDatasetPicker, useDatasetOverlay } from '@/components/datasets/attach';
 import { PlotFrame } from '@/components/plot';
 import type { FlowSpec, TrajectoryResult, ValueInput } from '@/flow';
 import { BLOCK_FIELD, FLOW_BLOCK, FieldSyntaxError, fieldValue, readDocument, type DocNode, type FlowReading } from '@/flow/document';
-import { plotPicture, resolveAxes, traceOptions, type PlotSettings } from './plotData';
-import { PLOT_FIELD, PLOT_FLOW, plotSettingsOf } from './plotNodes';
+import { plotPicture, resolveAxes, traceOptions, withOverlay, type PlotSettings } from './plotData';
+import { useDerivationId } from '../derivationContext';
+import { PLOT_DATASET, PLOT_FIELD, PLOT_FLOW, plotSettingsOf } from './plotNodes';
 import { traceInWorker } from './plotTraces';
 import './plotBlock.css';
 
@@ -169,6 +171,9 @@ export function PlotBlockView(props: NodeViewProps) {
   const { caption, starts } = readStarts(node, couplings);
   const axes = resolveAxes(settings, couplings);
   const owner = useRef(`plot-${Math.random().toString(36).slice(2)}`);
+  const derivationId = useDerivationId();
+  const datasetId = typeof node.attrs[PLOT_DATASET] === 'string' && node.attrs[PLOT_DATASET] ? (node.attrs[PLOT_DATASET] as string) : null;
+  const overlay = useDatasetOverlay(derivationId ?? '', derivationId ? datasetId : null);
 
   const ready = starts.filter((s) => s.start !== null);
   const request = spec && ready.length > 0 ? JSON.stringify({ spec, starts: ready.map((s) => s.start), settings: { ...settings, x: '', y: '' } }) : null;
@@ -196,12 +201,13 @@ export function PlotBlockView(props: NodeViewProps) {
     // eslint-disable-next-line react-hooks/exhaustive-deps
   }, [request]);
 
-  const picture = useMemo(
+  const traces = useMemo(
     () => (traced && spec ? plotPicture(settings, spec.couplings, spec.convention, traced.texts, traced.results) : null),
     // settings and couplings are part of what the picture shows; traced changes with each answer.
     // eslint-disable-next-line react-hooks/exhaustive-deps
     [traced, JSON.stringify(settings), spec?.couplings.join(','), spec?.convention],
   );
+  const picture = useMemo(() => (traces && overlay.series.length ? withOverlay(traces, overlay.series) : traces), [traces, overlay.series]);
 
   const problems: string[] = [];
   if (bound.missing) problems.push(bound.missing);
@@ -215,7 +221,8 @@ export function PlotBlockView(props: NodeViewProps) {
   if (traced?.error) problems.push(traced.error);
   picture?.problems.forEach((p) => problems.push(`Start ${traced?.numbers[p.start] ?? p.start + 1}: ${p.message}.`));
 
-  const set = (attrs: Partial<Record<keyof PlotSettings | typeof PLOT_FLOW, unknown>>) => updateAttributes(attrs);
+  if (overlay.note) problems.push(overlay.note);
+  const set = (attrs: Partial<Record<keyof PlotSettings | typeof PLOT_FLOW | typeof PLOT_DATASET, unknown>>) => updateAttributes(attrs);
   const couplingOptions = couplings.map((c) => ({ value: c, label: c }));
   const title = caption || `Trajectories of ${bound.label || 'the flow'}`;
 
@@ -298,6 +305,9 @@ export function PlotBlockView(props: NodeViewProps) {
             }}
           />
         </label>
+        {derivationId && (
+          <AttachDatasetPicker derivationId={derivationId} datasetId={datasetId} onChange={(dataset) => set({ [PLOT_DATASET]: dataset })} disabled={!editable} />
+        )}
         {editable && (
           <button type="button" className="rounded border border-rule px-2 py-0.5 text-ink-soft hover:border-ink-faint hover:text-ink" onClick={() => deleteNode()}>
             Remove plot

@@ -5,7 +5,7 @@ import { TextSelection } from '@tiptap/pm/state';
 import { ReactNodeViewRenderer } from '@tiptap/react';
 import { FLOW_BLOCK } from '@/flow/document';
 import { defaultPlotSettings } from './plotData';
-import { PLOT_FIELD, PLOT_FLOW, TRAJECTORY_PLOT, plotBlockNode } from './plotNodes';
+import { PLOT_DATASET, PLOT_FIELD, PLOT_FLOW, TRAJECTORY_PLOT, plotBlockNode } from './plotNodes';
 import { PlotBlockView } from './PlotBlockView';
 
 declare module '@tiptap/core' {
@@ -91,6 +91,7 @@ export const TrajectoryPlot = Node.create({
     });
     return {
       [PLOT_FLOW]: plain(PLOT_FLOW, null),
+      [PLOT_DATASET]: plain(PLOT_DATASET, null),
       view: plain('view', defaultPlotSettings.view),
       x: plain('x', ''),
       y: plain('y', ''),

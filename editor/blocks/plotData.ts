@@ -262,3 +262,29 @@ export function plotPicture(settings: PlotSettings, couplings: readonly string[]
   const y: PlotAxis = { label: axes.y, scale: settings.valueScale, domain: viewRange(coreY, allY, logValues) };
   return { x, y, series, markers, notes, problems };
 }
+
+/** Widens a range to take in these values (whole decades on a log axis). */
+function widened(domain: [number, number] | undefined, values: number[], log: boolean): [number, number] | undefined {
+  if (!domain) return undefined;
+  const usable = values.filter((v) => Number.isFinite(v) && (!log || v > 0));
+  if (usable.length === 0) return domain;
+  let lo = Math.min(domain[0], ...usable);
+  let hi = Math.max(domain[1], ...usable);
+  if (log) return [10 ** Math.floor(Math.log10(lo)), 10 ** Math.ceil(Math.log10(hi))];
+  const pad = (hi - lo) * 0.02;
+  if (lo < domain[0]) lo -= pad;
+  if (hi > domain[1]) hi += pad;
+  return [lo, hi];
+}
+
+/** The picture with a dataset's series laid over it, the view widened to show the data. */
+export function withOverlay(picture: PlotPicture, overlay: readonly PlotSeries[]): PlotPicture {
+  const xs = overlay.flatMap((s) => s.points.map((p) => p.x));
+  const ys = overlay.flatMap((s) => s.points.flatMap((p) => (p.sigma == null ? [p.y] : [p.y - p.sigma, p.y + p.sigma])));
+  return {
+    ...picture,
+    x: { ...picture.x, domain: widened(picture.x.domain, xs, picture.x.scale === 'log') },
+    y: { ...picture.y, domain: widened(picture.y.domain, ys, picture.y.scale === 'log') },
+    series: [...picture.series, ...overlay],
+  };
+}

@@ -9,6 +9,8 @@ export const TRAJECTORY_PLOT = 'trajectoryPlot';
 export const PLOT_FIELD = 'plotField';
 /** Attribute of the plot block: null = the nearest flow block above, or a flow block's stepId. */
 export const PLOT_FLOW = 'flow';
+/** Attribute of the plot block: the id of a dataset of the group drawn beside the flow, or null. */
+export const PLOT_DATASET = 'dataset';
 
 export type PlotFieldKind = 'caption' | 'start';
 

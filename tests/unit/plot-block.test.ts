@@ -3,7 +3,7 @@
 // an escaping flow kept from squashing the picture, and the block's settings read safely.
 import { describe, expect, test } from 'vitest';
 import { traceTrajectory, type FlowSpec } from '../../flow';
-import { defaultPlotSettings, describeFixedPointInWords, plotPicture, resolveAxes, traceOptions, type PlotSettings } from '../../editor/blocks/plotData';
+import { defaultPlotSettings, describeFixedPointInWords, plotPicture, resolveAxes, traceOptions, withOverlay, type PlotSettings } from '../../editor/blocks/plotData';
 import { plotBlockNode, plotFieldsOf, plotSettingsOf } from '../../editor/blocks/plotNodes';
 
 // Isotropic plus cubic anisotropy at one loop (A. Aharony, Phys. Rev. B 8, 4270 (1973);
@@ -108,6 +108,16 @@ describe('axes and samples', () => {
     expect(drawn.problems).toHaveLength(1);
     expect(drawn.problems[0]!.start).toBe(0);
     expect(drawn.series).toHaveLength(0);
+  });
+
+  test('a dataset laid over the plot widens the view to show every point with its error bar', () => {
+    const drawn = picture(cubic(2), [{ u: 0.01, v: 0.005 }]);
+    const data = { id: 'dataset-1', name: 'invented measurements', look: 'points' as const, points: [{ x: 0.2, y: 0.05, sigma: 0.01 }] };
+    const laid = withOverlay(drawn, [data]);
+    expect(laid.series.at(-1)).toBe(data);
+    expect(laid.x.domain![1]).toBeGreaterThanOrEqual(0.2);
+    expect(laid.y.domain![1]).toBeGreaterThanOrEqual(0.06);
+    expect(laid.x.domain![0]).toBe(drawn.x.domain![0]);
   });
 
   test('a map is followed into the infrared only, over its own number of steps', () => {

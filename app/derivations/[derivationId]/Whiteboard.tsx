@@ -6,6 +6,7 @@ import { ConnectionState } from '@/components/ConnectionState';
 import { PresenceList } from '@/components/PresenceList';
 import { Notice } from '@/components/ui';
 import { DerivationEditor } from '@/editor/DerivationEditor';
+import { DerivationContext } from '@/editor/derivationContext';
 import type { EditorBinding } from '@/editor/extensions';
 import { usePresence } from '@/editor/presence';
 import { closeCodes } from '@/server/collab/closeReasons';
@@ -28,6 +29,8 @@ export default function Whiteboard({ derivationId, title, user, role, canEdit, o
     // The binding follows the session's document and connection, not its changing state.
     [session?.doc, session?.provider, session?.user],
   );
+
+  const derivation = useMemo(() => ({ derivationId }), [derivationId]);
 
   if (!session || !binding) return <p className="text-ink-faint" role="status">Opening the derivation…</p>;
   const final = session.final;
@@ -60,7 +63,9 @@ export default function Whiteboard({ derivationId, title, user, role, canEdit, o
         </p>
       )}
       {session.ready ? (
-        <DerivationEditor binding={binding} editable={editable} label={title} />
+        <DerivationContext.Provider value={derivation}>
+          <DerivationEditor binding={binding} editable={editable} label={title} />
+        </DerivationContext.Provider>
       ) : (
         <p className="text-ink-faint" role="status">
           Loading the text…
