@@ -55,14 +55,23 @@ async function readHead(file: File): Promise<{ text: string } | { issue: FileIss
   return decodeText(bytes);
 }
 
+/** Roles guessed from the content: the first two numeric columns are x and y; an error column is one named like it (err, sigma, dchi for chi). */
 function guessRoles(preview: TableRead): ColumnRole[] {
   const roles: ColumnRole[] = preview.header.map(() => 'other');
   const numeric = preview.columns.map((c, i) => (c.numeric && c.values.length > 0 ? i : -1)).filter((i) => i >= 0);
-  const errorLike = numeric.find((i) => /err|sigma|sd\b|std|unc|δ|delta/i.test(preview.header[i]!));
-  const plain = numeric.filter((i) => i !== errorLike);
-  if (plain[0] !== undefined) roles[plain[0]] = 'x';
-  if (plain[1] !== undefined) roles[plain[1]] = 'y';
-  if (errorLike !== undefined && plain.length >= 2) roles[errorLike] = 'sigma';
+  const errorNamed = (i: number) => /err|sigma|\bsd\b|std|unc|δ|delta/i.test(preview.header[i]!);
+  const plain = numeric.filter((i) => !errorNamed(i));
+  const [x, y] = plain;
+  if (x === undefined || y === undefined) return roles;
+  roles[x] = 'x';
+  roles[y] = 'y';
+  const yName = preview.header[y]!.toLowerCase();
+  const errorOfY = (i: number) => {
+    const name = preview.header[i]!.toLowerCase();
+    return errorNamed(i) || name === `d${yName}` || name === `${yName}_err` || name === `${yName}err` || name === `s${yName}`;
+  };
+  const sigma = numeric.find((i) => i !== x && i !== y && errorOfY(i));
+  if (sigma !== undefined) roles[sigma] = 'sigma';
   return roles;
 }
 
