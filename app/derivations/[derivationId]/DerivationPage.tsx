@@ -6,6 +6,7 @@ import Link from 'next/link';
 import { useCallback } from 'react';
 import { ClaimCount } from '@/components/StatusWord';
 import { Loading, Notice, PageTitle, When } from '@/components/ui';
+import { VersionsPanel } from '@/app/_versions/VersionsPanel';
 import { fetchJson } from '../../_lib/fetchJson';
 import type { DerivationView, Wire } from '../../_lib/wire';
 
@@ -76,6 +77,7 @@ export function DerivationPage({ derivationId, user }: { derivationId: string; u
         canEdit={d.actions.includes('editText')}
         onRoleChanged={onRoleChanged}
       />
+      <VersionsPanel derivationId={derivationId} actions={d.actions} />
     </article>
   );
 }
