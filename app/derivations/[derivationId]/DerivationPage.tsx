@@ -9,6 +9,7 @@ import { Loading, Notice, PageTitle, When } from '@/components/ui';
 import { VersionsPanel } from '@/app/_versions/VersionsPanel';
 import { fetchJson } from '../../_lib/fetchJson';
 import type { DerivationView, Wire } from '../../_lib/wire';
+import { ReviewPane } from './ReviewPane';
 
 // The editor and its connection live in the browser only (Yjs, IndexedDB, websocket).
 const Whiteboard = dynamic(() => import('./Whiteboard'), {
@@ -68,15 +69,17 @@ export function DerivationPage({ derivationId, user }: { derivationId: string; u
           <dd className="text-ink">{d.role}</dd>
         </div>
       </dl>
-      <Whiteboard
-        key={`${derivationId}:${d.role}`}
-        derivationId={derivationId}
-        title={d.title}
-        user={user}
-        role={d.role}
-        canEdit={d.actions.includes('editText')}
-        onRoleChanged={onRoleChanged}
-      />
+      <ReviewPane derivationId={derivationId} user={user} canEdit={d.actions.includes('editText')}>
+        <Whiteboard
+          key={`${derivationId}:${d.role}`}
+          derivationId={derivationId}
+          title={d.title}
+          user={user}
+          role={d.role}
+          canEdit={d.actions.includes('editText')}
+          onRoleChanged={onRoleChanged}
+        />
+      </ReviewPane>
       <VersionsPanel derivationId={derivationId} actions={d.actions} />
     </article>
   );
