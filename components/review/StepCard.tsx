@@ -78,17 +78,24 @@ export function SignOffLine({ step, selfId, actions, maySignOff }: { step: StepR
   return (
     <div className="flex flex-col gap-1">
       {step.signOffs.map((signOff) => (
-        <p key={signOff.id} className="flex flex-wrap items-center gap-x-1.5 text-sm text-verdict-holds" data-sign-off>
-          <CheckedIcon className="shrink-0" />
-          <span>
-            Checked by <span className="text-ink">{signOff.by.name}</span>, <When iso={signOff.signedAt} />
-          </span>
-          {maySignOff && signOff.by.id === selfId && (
-            <Button kind="quiet" className="px-1.5 py-0 text-xs" busy={busy} onClick={() => void run(() => actions.withdraw(signOff.id))}>
-              Withdraw
-            </Button>
-          )}
-        </p>
+        <div key={signOff.id} className="flex items-start gap-1.5 text-sm text-verdict-holds">
+          <CheckedIcon className="mt-1 shrink-0" />
+          <div className="min-w-0">
+            <p data-sign-off>
+              Checked by <span className="text-ink">{signOff.by.name}</span>, <When iso={signOff.signedAt} />
+            </p>
+            {maySignOff && signOff.by.id === selfId && (
+              <button
+                type="button"
+                disabled={busy}
+                onClick={() => void run(() => actions.withdraw(signOff.id))}
+                className="text-xs text-ink-faint underline decoration-rule underline-offset-2 hover:text-ink"
+              >
+                Withdraw my sign-off
+              </button>
+            )}
+          </div>
+        </div>
       ))}
       {step.signOffs.length === 0 && step.lastCleared?.cleared && (
         <p className="flex items-start gap-1.5 text-xs text-verdict-unsure" data-sign-off-cleared>
