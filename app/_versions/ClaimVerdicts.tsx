@@ -2,7 +2,7 @@
 // The claims of a version with the verdict stored for exactly that content: the word and icon,
 // the measured value beside the claimed one, uncertainty, tolerance, method and solver settings,
 // and the evidence plots drawn in the shared plot frame (each can be saved as SVG).
-import { PlotFrame, type PlotSeries } from '@/components/plot';
+import { PlotFrame, evidencePlot } from '@/components/plot';
 import { StatusWord } from '@/components/StatusWord';
 import type { ClaimResult, Measured, PlotData } from '@/flow/types';
 import type { VersionClaim } from '@/server/versions/types';
@@ -27,16 +27,8 @@ function record(values: Record<string, number | string | boolean>): string {
   return entries.length === 0 ? '—' : entries.map(([k, v]) => `${k} = ${typeof v === 'number' ? number(v) : String(v)}`).join(', ');
 }
 
-/** A check's evidence plot in the plot frame's terms. */
-export function evidencePlot(plot: PlotData, key: string) {
-  const series: PlotSeries[] = plot.series.map((s, i) => ({
-    id: `${key}-${i}`,
-    name: s.name,
-    look: s.style === 'points' ? 'points' : undefined,
-    points: s.points.map(([x, y]) => ({ x, y })),
-  }));
-  return { title: plot.title, x: { label: plot.xLabel, scale: plot.xScale ?? 'linear' }, y: { label: plot.yLabel, scale: plot.yScale ?? 'linear' }, series };
-}
+/** A check's evidence plot in the plot frame's terms (shared with the live evidence panel). */
+export { evidencePlot };
 
 function Evidence({ result, claimId }: { result: ClaimResult; claimId: string }) {
   const plots = result.evidence.plots ?? [];

@@ -2,3 +2,4 @@ export { PlotFrame, PLOT_ACCENT, PLOT_INK, type PlotFrameProps } from './PlotFra
 export type { AxisScale, MarkerShape, PlotAxis, PlotMarker, PlotPoint, PlotSeries, ReadoutEntry, SeriesLook } from './types';
 export { decadeLabel, decadeTicks, domainOf, readoutNumber, tickLabel, type Domain } from './axes';
 export { standaloneSvg, svgFileName, downloadText } from './svgFile';
+export { evidencePlot } from './evidence';
