@@ -1,7 +1,7 @@
 'use client';
 // The selected step in the margin: its sign-offs ("checked by" with name and time, or why the
 // last one was cleared), its remark threads, a new remark, and its history.
-import { useState } from 'react';
+import { useEffect, useRef, useState } from 'react';
 import { Button, When } from '../ui';
 import { CheckedIcon, ClearedIcon } from './reviewIcons';
 import { RemarkForm } from './RemarkForm';
@@ -147,8 +147,22 @@ export function StepCard({
 }) {
   const [writing, setWriting] = useState(false);
   const threads = review.threads.filter((t) => t.stepId === step.stepId);
+  const cardRef = useRef<HTMLElement>(null);
+  // Opened from a note or the chooser, the note is gone: the keyboard continues in the card.
+  useEffect(() => {
+    const active = document.activeElement;
+    if (!active || active === document.body || active.closest('[data-review-margin]') || active.closest('[aria-label="Review margin"]')) {
+      if (!cardRef.current?.contains(active)) cardRef.current?.focus({ preventScroll: true });
+    }
+  }, [step.stepId]);
   return (
-    <section aria-label={`Review of step ${number}`} className="flex flex-col gap-2 rounded border border-accent/50 bg-paper px-3 py-2.5 shadow-sm" data-step-card={step.stepId}>
+    <section
+      ref={cardRef}
+      tabIndex={-1}
+      aria-label={`Review of step ${number}`}
+      className="flex flex-col gap-2 rounded border border-accent/50 bg-paper px-3 py-2.5 shadow-sm"
+      data-step-card={step.stepId}
+    >
       <header className="flex items-start justify-between gap-2">
         <div className="min-w-0">
           <p className="text-xs uppercase tracking-[0.12em] text-ink-faint">Step {number}</p>

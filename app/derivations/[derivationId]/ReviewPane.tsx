@@ -157,7 +157,11 @@ export function ReviewPane({
                   selfId={user.id}
                   actions={actions}
                   focusThreadId={focusThread}
-                  onClose={() => select(null)}
+                  onClose={() => {
+                    select(null);
+                    // Back to the step's note, where the keyboard came from.
+                    setTimeout(() => document.querySelector<HTMLElement>(`[data-step-note="${CSS.escape(step.stepId)}"]`)?.focus(), 0);
+                  }}
                   onMove={move}
                 />
               )}
