@@ -9,6 +9,7 @@ import { checksBackgroundService } from './checks';
 import { collabService, collabUpgradeRoute } from './collab';
 import type { ServerConfig } from './config';
 import { reviewBackgroundService } from './review/service';
+import { versionsDemoService } from './versions/demo';
 
 export interface ServerContext {
   config: ServerConfig;
@@ -34,4 +35,5 @@ export const upgradeRoutes: UpgradeRoute[] = [collabUpgradeRoute];
 
 // The background checks read working copies through the collaboration service: it comes after.
 // Review hears both (document changes for sign-offs, verdict changes for mail): it comes last.
-export const services: Service[] = [collabService, checksBackgroundService, reviewBackgroundService];
+// The demo's locked version is made once the demo body is in the working copy: keep it last.
+export const services: Service[] = [collabService, checksBackgroundService, reviewBackgroundService, versionsDemoService];

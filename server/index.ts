@@ -13,6 +13,7 @@ import { services, upgradeRoutes, type ServerContext, type Service } from './ext
 import { registerMailRoute } from './mail';
 import { startMailSink, type MailSink } from './mailSink';
 import { hashPassword } from './passwords';
+import { startupNotes } from './startupNotes';
 
 type RequestHandler = (req: IncomingMessage, res: ServerResponse) => Promise<void>;
 
@@ -129,6 +130,7 @@ async function main(): Promise<void> {
       console.log(`  ${account.role.padEnd(8)} ${account.name.padEnd(18)} ${account.email.padEnd(28)} password: ${account.password}`);
     }
     console.log(`Sign in at ${origin}/signin`);
+    for (const note of startupNotes) console.log(note);
   }
   console.log(`Marginalia listening on ${originOf(config.host, port)}`);
 }
