@@ -144,10 +144,38 @@ export function datasetVerdicts(series: SeriesInput, law: ClaimedLaw): DatasetVe
   }
 }
 
-/** The evidence of a log-exponent claim from an attached dataset: verdicts, and the data drawn beside the claimed law. */
-export function DatasetEvidence({ derivationId, datasetId, law }: { derivationId: string; datasetId: string; law: ClaimedLaw }) {
+/** The law with both exponents held and only its amplitude fitted to the data, or null when it cannot be. */
+function amplitudeFitted(series: SeriesInput, law: ClaimedLaw): PowerLogFit | null {
+  if (law.power == null && law.logPower == null) return null;
+  try {
+    return fitPowerLog(
+      { x: series.x.values, y: series.y.values, sigma: series.sigma?.values ?? null },
+      { a: law.power == null ? null : -law.power, p: law.logPower ?? null },
+    );
+  } catch {
+    return null;
+  }
+}
+
+/**
+ * The evidence of a log-exponent claim from an attached dataset: verdicts for the claimed exponents,
+ * and the data drawn beside the claimed law and, when given, the flow's prediction (the exponents
+ * the check measured), each with its amplitude fitted to the data.
+ */
+export function DatasetEvidence({
+  derivationId,
+  datasetId,
+  law,
+  prediction,
+}: {
+  derivationId: string;
+  datasetId: string;
+  law: ClaimedLaw;
+  prediction?: ClaimedLaw;
+}) {
   const loaded = useDatasetSeries(derivationId, datasetId);
   const verdicts = useMemo(() => (loaded?.state === 'ready' ? datasetVerdicts(loaded.value, law) : null), [loaded, law]);
+  const predicted = useMemo(() => (loaded?.state === 'ready' && prediction ? amplitudeFitted(loaded.value, prediction) : null), [loaded, prediction]);
   if (!loaded || loaded.state === 'loading') return <p className="text-ink-faint" role="status">Loading the dataset…</p>;
   if (loaded.state === 'error') return <p role="alert" className="text-verdict-fails">The dataset could not be loaded: {loaded.message}</p>;
   const series = loaded.value;
@@ -156,6 +184,7 @@ export function DatasetEvidence({ derivationId, datasetId, law }: { derivationId
   const log = positive && hi / lo > 20;
   const drawn: PlotSeries[] = [datasetPlotSeries(series)];
   if (verdicts?.claimedFit) drawn.push({ ...fitPlotSeries(verdicts.claimedFit, series.x.values, log, 'claimed-law'), name: 'claimed law, amplitude fitted' });
+  if (predicted) drawn.push({ ...fitPlotSeries(predicted, series.x.values, log, 'flow-prediction'), name: 'flow’s prediction, amplitude fitted', look: 'line' });
   return (
     <section aria-label="Evidence from the dataset" className="flex flex-col gap-2" data-testid="dataset-evidence">
       <h4 className="font-semibold">Data: {series.name}</h4>
