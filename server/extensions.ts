@@ -8,6 +8,7 @@ import type { Duplex } from 'node:stream';
 import { checksBackgroundService } from './checks';
 import { collabService, collabUpgradeRoute } from './collab';
 import type { ServerConfig } from './config';
+import { reviewDemoService } from './review/demo';
 import { reviewBackgroundService } from './review/service';
 import { versionsDemoService } from './versions/demo';
 
@@ -36,4 +37,5 @@ export const upgradeRoutes: UpgradeRoute[] = [collabUpgradeRoute];
 // The background checks read working copies through the collaboration service: it comes after.
 // Review hears both (document changes for sign-offs, verdict changes for mail): it comes last.
 // The demo's locked version is made once the demo body is in the working copy: keep it last.
-export const services: Service[] = [collabService, checksBackgroundService, reviewBackgroundService, versionsDemoService];
+// The demo review (remarks, a sign-off) reads the same body.
+export const services: Service[] = [collabService, checksBackgroundService, reviewBackgroundService, versionsDemoService, reviewDemoService];

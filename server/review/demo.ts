@@ -1,10 +1,12 @@
 // Review in the demo data, through the real review code: the demo reviewer's remark thread (with
 // the author's reply) on the derivation's first quantitative step, a resolved thread on a line of
 // prose, and the reviewer's sign-off of a claim that holds. Invented, like all demo data.
-import { eq } from 'drizzle-orm';
+import { and, asc, eq, isNull } from 'drizzle-orm';
 import { getDb, schema } from '../../db/client';
-import { demoAccounts } from '../../db/demo';
+import { demoAccounts, demoDerivationTitle } from '../../db/demo';
 import type { MemberRole } from '../../db/schema';
+import { checksService } from '../checks/access';
+import type { Service } from '../extensions';
 import type { SessionUser } from '../session';
 import { replyToThread, setThreadResolved, startThread } from './remarks';
 import { readWorkingSteps, signOffStep } from './signOffs';
@@ -69,3 +71,43 @@ export async function addDemoReview(input: { derivationId: string; origin: strin
   }
   return { threads, signOffs };
 }
+
+/** The demo review, once the demo derivation has its body and its checks have run (in the background). */
+async function addDemoReviewWhenChecked(origin: string): Promise<void> {
+  const [derivation] = await getDb()
+    .select({ id: schema.derivations.id })
+    .from(schema.derivations)
+    .where(and(eq(schema.derivations.title, demoDerivationTitle), isNull(schema.derivations.deletedAt)));
+  if (!derivation) return;
+  await checksService()?.whenSettled(derivation.id);
+  if (stopping) return;
+  // The reviewer signs off a claim the server found holding (the demo keeps one failing on purpose).
+  const [holding] = await getDb()
+    .select({ stepId: schema.claimChecks.stepId })
+    .from(schema.claimChecks)
+    .where(and(eq(schema.claimChecks.derivationId, derivation.id), eq(schema.claimChecks.status, 'holds')))
+    .orderBy(asc(schema.claimChecks.position))
+    .limit(1);
+  if (stopping) return;
+  writing = addDemoReview({ derivationId: derivation.id, origin, holdingClaimStepId: holding?.stepId }).then(() => undefined);
+  await writing;
+}
+
+let stopping = false;
+/** The demo review's writes, once begun (a stop waits for them, not for the checks before them). */
+let writing: Promise<void> | null = null;
+
+export const reviewDemoService: Service = {
+  name: 'demo review',
+  start(context) {
+    if (!context.config.demo) return;
+    stopping = false;
+    // Not awaited: the server is ready before the demo's checks have run.
+    void addDemoReviewWhenChecked(context.origin).catch((error: unknown) => console.error('demo: adding the demo review failed:', error));
+  },
+  async stop() {
+    stopping = true;
+    await writing?.catch(() => undefined);
+    writing = null;
+  },
+};
