@@ -3,8 +3,10 @@
 // for authors. Reviewers and readers get the same view, not editable.
 import { EditorContent, useEditor, useEditorState, type Editor } from '@tiptap/react';
 import { useEffect, useMemo } from 'react';
+import { BlockTools } from './blocks/BlockTools';
 import { derivationExtensions, type EditorBinding } from './extensions';
 import './editor.css';
+import './blocks/blocks.css';
 
 export interface DerivationEditorProps {
   binding: EditorBinding;
@@ -67,6 +69,7 @@ function Toolbar({ editor }: { editor: Editor }) {
       <Tool label="Inline math" keys="type $…$" onPress={run((c) => c.insertInlineMath())} />
       <Tool label="Display math" keys="type $$ and a space" onPress={run((c) => c.insertDisplayMath())} />
       <span className="mx-1 h-4 w-px bg-rule" aria-hidden="true" />
+      <BlockTools editor={editor} />
       <Tool label="Trajectory plot" onPress={run((c) => c.insertTrajectoryPlot())} />
     </div>
   );

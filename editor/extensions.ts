@@ -7,6 +7,7 @@ import CollaborationCaret from '@tiptap/extension-collaboration-caret';
 import StarterKit from '@tiptap/starter-kit';
 import type { Awareness } from 'y-protocols/awareness';
 import type * as Y from 'yjs';
+import { CheckedBlocks } from './blocks/nodes';
 import { plotBlockExtensions } from './blocks/plotBlock';
 import { MathDisplay, MathInline } from './math';
 import type { PresenceUser } from './presence';
@@ -48,6 +49,7 @@ export function derivationExtensions({ doc, provider, user }: EditorBinding): An
     StepIds,
     MathInline,
     MathDisplay,
+    CheckedBlocks,
     ...plotBlockExtensions,
     Collaboration.configure({ document: doc, field: bodyField }),
     CollaborationCaret.configure({

@@ -1,10 +1,12 @@
 'use client';
 // The derivation's whiteboard: who is here, the connection state, and the shared text.
 import Link from 'next/link';
-import { useMemo } from 'react';
+import { useMemo, useState } from 'react';
+import type { Editor } from '@tiptap/core';
 import { ConnectionState } from '@/components/ConnectionState';
 import { PresenceList } from '@/components/PresenceList';
 import { Notice } from '@/components/ui';
+import { ChecksSidebar } from '@/editor/blocks/ChecksSidebar';
 import { DerivationEditor } from '@/editor/DerivationEditor';
 import { DerivationContext } from '@/editor/derivationContext';
 import type { EditorBinding } from '@/editor/extensions';
@@ -31,6 +33,7 @@ export default function Whiteboard({ derivationId, title, user, role, canEdit, o
   );
 
   const derivation = useMemo(() => ({ derivationId }), [derivationId]);
+  const [editor, setEditor] = useState<Editor | null>(null);
 
   if (!session || !binding) return <p className="text-ink-faint" role="status">Opening the derivation…</p>;
   const final = session.final;
@@ -64,7 +67,8 @@ export default function Whiteboard({ derivationId, title, user, role, canEdit, o
       )}
       {session.ready ? (
         <DerivationContext.Provider value={derivation}>
-          <DerivationEditor binding={binding} editable={editable} label={title} />
+          {editor && <ChecksSidebar editor={editor} title={title} canEdit={editable} />}
+          <DerivationEditor binding={binding} editable={editable} label={title} onReady={setEditor} />
         </DerivationContext.Provider>
       ) : (
         <p className="text-ink-faint" role="status">

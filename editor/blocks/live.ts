@@ -1,0 +1,402 @@
+// The live state of a derivation's checked steps, for the blocks' views and the side panels: the
+// latest reading of the document (each block's problems and field previews, from the field
+// worker) and each claim's verdict (from the check worker). The editor computes nothing itself:
+// it hands the blocks to the workers a moment after the last edit and shows what comes back.
+import type { Editor } from '@tiptap/core';
+import type { Node as ProseMirrorNode } from '@tiptap/pm/model';
+import type { BlockProblem, CheckGroup, DocNode } from '@/flow/document';
+import type { BlockPreviews, Preview } from '@/flow/document/preview';
+import type { ClaimFile, ClaimResult } from '@/flow/types';
+import { CheckClient, type CheckState } from '../worker/checkClient';
+import type { CheckItem, ClaimInfo, FieldAnswer, FieldRequest, FlowInfo, ImportAnswer, Reading, WorkerLike } from '../worker/protocol';
+
+export type { CheckState };
+
+export interface TightRun {
+  state: CheckState;
+  result: ClaimResult | null;
+  since: number | null;
+}
+
+export interface ClaimView {
+  info: ClaimInfo;
+  /** The number of the flow block it is bound to, or null. */
+  flowNumber: number | null;
+  /** 'invalid' when it cannot be checked as written. */
+  state: CheckState | 'invalid';
+  /** The verdict for what is written now (null while it is being checked). */
+  result: ClaimResult | null;
+  /** The verdict shown faded while the claim is checked again. */
+  previous: ClaimResult | null;
+  /** When the running check started (performance.now()). */
+  since: number | null;
+  note: string | null;
+  tight: TightRun | null;
+}
+
+export interface LiveSnapshot {
+  version: number;
+  /** A first reading of the document has arrived. */
+  ready: boolean;
+  flows: readonly FlowInfo[];
+  claims: readonly ClaimView[];
+  /** The claim whose evidence is open. */
+  evidenceFor: string | null;
+  /** Some claim waits for its verdict. */
+  busy: boolean;
+  /** The field worker could not read the document (shown once, in words). */
+  failure: string | null;
+}
+
+export interface ExportChoice {
+  key: string;
+  label: string;
+  file: ClaimFile;
+  claimCount: number;
+  /** Claims bound to this flow (or none) that cannot be checked as written, so are not in the file. */
+  leftOut: ClaimInfo[];
+}
+
+export interface LiveOptions {
+  createFieldWorker?: () => WorkerLike;
+  createCheckWorker?: () => WorkerLike;
+  /** Wait after the last edit before reading the document (ms). */
+  debounceMs?: number;
+}
+
+const EMPTY_PREVIEWS: BlockPreviews = {};
+
+function defaultFieldWorker(): WorkerLike {
+  return new Worker(new URL('../worker/fields.worker.ts', import.meta.url), { type: 'module', name: 'marginalia-fields' }) as unknown as WorkerLike;
+}
+
+function defaultCheckWorker(): WorkerLike {
+  return new Worker(new URL('../worker/check.worker.ts', import.meta.url), { type: 'module', name: 'marginalia-checks' }) as unknown as WorkerLike;
+}
+
+export class LiveChecks {
+  private readonly checks: CheckClient;
+  private fieldWorker: WorkerLike | null = null;
+  private readonly createFieldWorker: () => WorkerLike;
+  private seq = 0;
+  private inFlight: number | null = null;
+  private waiting: (() => DocNode[]) | null = null;
+  private timer: ReturnType<typeof setTimeout> | null = null;
+  private readonly debounceMs: number;
+  private reading: Reading | null = null;
+  private itemByStep = new Map<string, CheckItem>();
+  private claimByStep = new Map<string, ClaimView>();
+  private readonly previousByStep = new Map<string, ClaimResult>();
+  private readonly tightByStep = new Map<string, CheckItem>();
+  private readonly imports = new Map<number, (answer: ImportAnswer) => void>();
+  private evidenceFor: string | null = null;
+  private failure: string | null = null;
+  private fieldRestarts = 0;
+  private current: LiveSnapshot = { version: 0, ready: false, flows: [], claims: [], evidenceFor: null, busy: false, failure: null };
+  private readonly listeners = new Set<() => void>();
+  private notifyScheduled = false;
+  private destroyed = false;
+
+  constructor(options: LiveOptions = {}) {
+    this.createFieldWorker = options.createFieldWorker ?? defaultFieldWorker;
+    this.debounceMs = options.debounceMs ?? 150;
+    this.checks = new CheckClient({ createWorker: options.createCheckWorker ?? defaultCheckWorker, onChange: () => this.rebuild() });
+  }
+
+  // ----- the document -----------------------------------------------------------------------
+
+  /** The document changed: read it a moment after the last change (or now). */
+  documentChanged(blocks: () => DocNode[], now = false): void {
+    if (this.destroyed) return;
+    this.waiting = blocks;
+    if (this.timer) clearTimeout(this.timer);
+    this.timer = null;
+    if (now) this.flush();
+    else this.timer = setTimeout(() => this.flush(), this.debounceMs);
+  }
+
+  private flush(): void {
+    this.timer = null;
+    if (this.inFlight !== null || !this.waiting) return;
+    const blocks = this.waiting();
+    this.waiting = null;
+    const seq = ++this.seq;
+    this.inFlight = seq;
+    this.postToFields({ type: 'read', seq, blocks });
+  }
+
+  private postToFields(request: FieldRequest): void {
+    if (!this.fieldWorker) {
+      const worker = this.createFieldWorker();
+      worker.onmessage = (event) => {
+        if (this.fieldWorker === worker) this.receiveFields(event.data as FieldAnswer);
+      };
+      worker.onerror = (event) => {
+        if (this.fieldWorker === worker) this.fieldWorkerDied(event);
+      };
+      this.fieldWorker = worker;
+    }
+    this.fieldWorker.postMessage(request);
+  }
+
+  private fieldWorkerDied(event: unknown): void {
+    this.fieldWorker?.terminate();
+    this.fieldWorker = null;
+    this.inFlight = null;
+    this.fieldRestarts++;
+    const reason = (event as { message?: unknown })?.message;
+    if (this.fieldRestarts > 3) {
+      this.failure = `The blocks cannot be read here: the field worker stopped ${this.fieldRestarts} times (${typeof reason === 'string' ? reason : 'no reason given'}).`;
+      this.rebuild();
+      return;
+    }
+    for (const resolve of this.imports.values()) resolve({ ok: false, errors: [{ field: 'file', message: 'the file could not be read: the field worker stopped; try again' }] });
+    this.imports.clear();
+    // Read the document again on a fresh worker.
+    if (this.lastBlocks) this.documentChanged(this.lastBlocks, true);
+  }
+
+  private lastBlocks: (() => DocNode[]) | null = null;
+
+  private receiveFields(answer: FieldAnswer): void {
+    if (answer.type === 'imported') {
+      this.imports.get(answer.seq)?.(answer.answer);
+      this.imports.delete(answer.seq);
+      return;
+    }
+    if (answer.seq === this.inFlight) this.inFlight = null;
+    if (answer.type === 'failed') {
+      this.imports.get(answer.seq)?.({ ok: false, errors: [{ field: 'file', message: answer.message }] });
+      this.imports.delete(answer.seq);
+      this.failure = `The blocks could not be read: ${answer.message}`;
+      this.rebuild();
+    } else if (!this.reading || answer.seq > this.reading.seq) {
+      this.fieldRestarts = 0;
+      this.failure = null;
+      this.accept(answer);
+    }
+    if (this.waiting && !this.timer) this.flush();
+  }
+
+  private accept(reading: Reading): void {
+    this.reading = reading;
+    this.itemByStep = new Map(reading.items.map((item) => [item.stepId, item]));
+    // A tighter run asked for an earlier version of a claim is dropped once the claim changes.
+    for (const [stepId, tight] of this.tightByStep) {
+      const item = this.itemByStep.get(stepId);
+      if (!item || `${item.ticket}:tight` !== tight.ticket) this.tightByStep.delete(stepId);
+    }
+    if (this.evidenceFor && !reading.claims.some((c) => c.stepId === this.evidenceFor)) this.evidenceFor = null;
+    this.checks.want(reading.items);
+    this.rebuild();
+  }
+
+  // ----- what the views read ------------------------------------------------------------------
+
+  snapshot(): LiveSnapshot {
+    return this.current;
+  }
+
+  subscribe(listener: () => void): () => void {
+    this.listeners.add(listener);
+    return () => this.listeners.delete(listener);
+  }
+
+  previews(stepId: string): BlockPreviews {
+    return this.reading?.previews[stepId] ?? EMPTY_PREVIEWS;
+  }
+
+  preview(stepId: string, address: string): Preview | undefined {
+    return this.reading?.previews[stepId]?.[address];
+  }
+
+  problems(stepId: string): BlockProblem[] {
+    const flow = this.reading?.flows.find((f) => f.stepId === stepId);
+    if (flow) return flow.problems;
+    return this.claimByStep.get(stepId)?.info.problems ?? [];
+  }
+
+  flow(stepId: string): FlowInfo | undefined {
+    return this.current.flows.find((f) => f.stepId === stepId);
+  }
+
+  claim(stepId: string): ClaimView | undefined {
+    return this.claimByStep.get(stepId);
+  }
+
+  /** The flow block a claim at this place would be bound to by default (the nearest above). */
+  get flows(): readonly FlowInfo[] {
+    return this.current.flows;
+  }
+
+  // ----- actions -------------------------------------------------------------------------------
+
+  openEvidence(stepId: string | null): void {
+    this.evidenceFor = stepId;
+    this.rebuild();
+  }
+
+  cancel(stepId: string): void {
+    const tight = this.tightByStep.get(stepId);
+    if (tight && this.checks.status(tight.ticket).state === 'running') this.checks.cancel(tight.ticket);
+    const item = this.itemByStep.get(stepId);
+    if (item) this.checks.cancel(item.ticket);
+  }
+
+  checkAgain(stepId: string): void {
+    const item = this.itemByStep.get(stepId);
+    if (item) this.checks.checkAgain(item.ticket);
+  }
+
+  /** Runs the claim again with tighter settings (tighter tolerances, longer RG time, more points). */
+  runTight(stepId: string, makeTight: (item: CheckItem) => CheckItem): void {
+    const item = this.itemByStep.get(stepId);
+    if (!item) return;
+    const tight = makeTight(item);
+    this.tightByStep.set(stepId, tight);
+    this.checks.runTight(tight);
+  }
+
+  /** Reads a claim file's text into blocks to insert (in the field worker, which holds the solver). */
+  importText(text: string): Promise<ImportAnswer> {
+    const seq = ++this.seq;
+    return new Promise((resolve) => {
+      this.imports.set(seq, resolve);
+      this.postToFields({ type: 'import', seq, text });
+    });
+  }
+
+  /** The claim files the derivation can be exported as: one per flow block with claims, and one for claims without a flow. */
+  exportChoices(): ExportChoice[] {
+    const reading = this.reading;
+    if (!reading) return [];
+    const choices: ExportChoice[] = [];
+    const groupByKey = new Map<string, CheckGroup>(reading.groups.map((g) => [g.key, g]));
+    const leftOutOf = (flowStepId: string | null) => reading.claims.filter((c) => c.flowStepId === flowStepId && !c.hash);
+    for (const flow of reading.flows) {
+      const group = groupByKey.get(flow.stepId);
+      if (!group) continue;
+      choices.push({
+        key: flow.stepId,
+        label: `Flow block ${flow.number}${flow.name ? `: ${flow.name}` : ''}`,
+        file: { flow: group.file.flow, claims: [...group.file.claims] },
+        claimCount: group.file.claims.length,
+        leftOut: leftOutOf(flow.stepId),
+      });
+    }
+    const alone = groupByKey.get('none');
+    if (alone) {
+      choices.push({ key: 'none', label: 'Claims without a flow', file: { flow: alone.file.flow, claims: [...alone.file.claims] }, claimCount: alone.file.claims.length, leftOut: leftOutOf(null) });
+    }
+    return choices;
+  }
+
+  destroy(): void {
+    this.destroyed = true;
+    if (this.timer) clearTimeout(this.timer);
+    this.fieldWorker?.terminate();
+    this.fieldWorker = null;
+    this.checks.destroy();
+    this.listeners.clear();
+  }
+
+  /** Remembers how to get the blocks again (a restarted field worker reads them afresh). */
+  track(blocks: () => DocNode[]): void {
+    this.lastBlocks = blocks;
+  }
+
+  // ----- building the snapshot -----------------------------------------------------------------
+
+  private rebuild(): void {
+    if (this.destroyed) return;
+    const reading = this.reading;
+    const flows = reading?.flows ?? [];
+    const flowNumber = new Map(flows.map((f) => [f.stepId, f.number]));
+    const claims: ClaimView[] = [];
+    const byStep = new Map<string, ClaimView>();
+    for (const info of reading?.claims ?? []) {
+      const view = this.claimView(info, info.flowStepId ? (flowNumber.get(info.flowStepId) ?? null) : null);
+      claims.push(view);
+      byStep.set(info.stepId, view);
+    }
+    this.claimByStep = byStep;
+    this.current = {
+      version: this.current.version + 1,
+      ready: reading !== null,
+      flows,
+      claims,
+      evidenceFor: this.evidenceFor,
+      busy: this.checks.busy || this.inFlight !== null || this.timer !== null,
+      failure: this.failure,
+    };
+    this.scheduleNotify();
+  }
+
+  private claimView(info: ClaimInfo, flowNumber: number | null): ClaimView {
+    const tightItem = this.tightByStep.get(info.stepId);
+    const tightStatus = tightItem ? this.checks.status(tightItem.ticket) : null;
+    const tight: TightRun | null = tightStatus ? { state: tightStatus.state, result: tightStatus.result, since: tightStatus.since } : null;
+    if (!info.hash || info.invalid) {
+      return { info, flowNumber, state: 'invalid', result: info.invalid, previous: null, since: null, note: null, tight: null };
+    }
+    const status = this.checks.status(info.hash);
+    if (status.result) this.previousByStep.set(info.stepId, status.result);
+    const previous = status.result ? null : (this.previousByStep.get(info.stepId) ?? null);
+    return { info, flowNumber, state: status.state, result: status.result, previous, since: status.since, note: status.note, tight };
+  }
+
+  private scheduleNotify(): void {
+    // Several changes in one turn (a reading, then results known from the cache) notify once.
+    if (this.notifyScheduled) return;
+    this.notifyScheduled = true;
+    queueMicrotask(() => {
+      this.notifyScheduled = false;
+      for (const listener of [...this.listeners]) listener();
+    });
+  }
+}
+
+// ---------------------------------------------------------------------------------------------
+// One LiveChecks per editor, reached by the node views and the panels.
+
+const byEditor = new WeakMap<Editor, LiveChecks>();
+let optionsForNew: LiveOptions = {};
+
+/** Options for the LiveChecks made from now on (tests, benchmarks). */
+export function configureLiveChecks(options: LiveOptions): void {
+  optionsForNew = options;
+}
+
+export function liveChecksOf(editor: Editor): LiveChecks {
+  let live = byEditor.get(editor);
+  if (!live) {
+    live = new LiveChecks(optionsForNew);
+    byEditor.set(editor, live);
+  }
+  return live;
+}
+
+export function dropLiveChecks(editor: Editor): void {
+  byEditor.get(editor)?.destroy();
+  byEditor.delete(editor);
+}
+
+// ---------------------------------------------------------------------------------------------
+// The flow and claim blocks of a ProseMirror document as JSON, reusing the JSON of blocks that
+// did not change (ProseMirror keeps unchanged nodes as the same objects).
+
+const jsonOf = new WeakMap<ProseMirrorNode, DocNode>();
+
+export function checkedBlocks(doc: ProseMirrorNode): DocNode[] {
+  const blocks: DocNode[] = [];
+  doc.forEach((node) => {
+    if (node.type.name !== 'flowBlock' && node.type.name !== 'claimBlock') return;
+    let json = jsonOf.get(node);
+    if (!json) {
+      json = node.toJSON() as DocNode;
+      jsonOf.set(node, json);
+    }
+    blocks.push(json);
+  });
+  return blocks;
+}
