@@ -127,7 +127,8 @@ export class FailingClaimMailer {
         groupName: derivation.groupName,
         claims,
         editors: [...editors.values()].map((person) => person.name),
-        link: `${this.origin}/derivations/${derivationId}`,
+        // Opens the page at the first claim that turned.
+        link: `${this.origin}/derivations/${derivationId}?step=${encodeURIComponent(failing[0]!.stepId)}`,
       });
       for (const recipient of recipients) await sendMail({ to: recipient.email, ...mail });
     }

@@ -391,7 +391,7 @@ describe('mail about claims that turned', () => {
     expect(mail.text).toMatch(/- cube \(identity\): fails/);
     expect(mail.text).not.toContain('steady');
     expect(mail.text).toContain(`after edits by ${demoAccount('author').name}`);
-    expect(linkIn(mail, `/derivations/${id}`)).toBe(`${server.url}/derivations/${id}`);
+    expect(linkIn(mail, `/derivations/${id}`)).toBe(`${server.url}/derivations/${id}?step=${square}`);
     // Only the derivation's authors are mailed: the lead wrote nothing in this one.
     const toLead = (await readMailbox(server.url, { to: lead })).filter((m) => !before.some((b) => b.id === m.id) && m.subject.includes('Turned claims'));
     expect(toLead).toEqual([]);
