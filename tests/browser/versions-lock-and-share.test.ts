@@ -145,7 +145,7 @@ describe('a reader follows the shared locked version', () => {
     expect(await claims.count()).toBe(2);
     for (const claim of await claims.all()) expect(await claim.locator('summary').textContent()).toContain('holds');
     // The reader may not change it: the text is not editable and nothing offers to lock or share.
-    expect(await text.getByRole('textbox').getAttribute('contenteditable')).toBe('false');
+    expect(await text.locator('.derivation-text').getAttribute('contenteditable')).toBe('false');
     expect(await page.getByRole('button', { name: 'Lock the working copy' }).count()).toBe(0);
     expect(await page.getByRole('button', { name: 'Make a share link' }).count()).toBe(0);
   });
@@ -155,15 +155,25 @@ describe('a reader follows the shared locked version', () => {
     const area = plot.locator('[data-plot-area]');
     await area.locator('svg').waitFor({ timeout: 60_000 });
     await area.scrollIntoViewIfNeeded();
-    const box = (await area.boundingBox())!;
+    // Two places along the drawn curve (the longest path of the drawing), early and late in RG time.
+    const along = await area.evaluate((element) => {
+      const paths = [...element.querySelectorAll('path')].filter((p) => p.getTotalLength() > 0);
+      const curve = paths.sort((a, b) => b.getTotalLength() - a.getTotalLength())[0]!;
+      const toScreen = curve.getScreenCTM()!;
+      return [0.3, 0.8].map((fraction) => {
+        const at = curve.getPointAtLength(curve.getTotalLength() * fraction);
+        const screen = new DOMPoint(at.x, at.y).matrixTransform(toScreen);
+        return { x: screen.x, y: screen.y };
+      });
+    });
     const readout = plot.getByTestId('plot-readout');
-    const readAt = async (fraction: number) => {
-      await page.mouse.move(box.x + box.width * fraction, box.y + box.height / 2);
+    const readAt = async (index: number) => {
+      await page.mouse.move(along[index]!.x, along[index]!.y);
       await expect.poll(async () => (await readout.textContent()) ?? '').toMatch(/RG time = [\d.e+-]+/);
       return (await readout.textContent()) ?? '';
     };
-    const early = await readAt(0.3);
-    const late = await readAt(0.8);
+    const early = await readAt(0);
+    const late = await readAt(1);
     expect(early).toMatch(/g = [\d.e+-]+/);
     const time = (line: string) => Number(/RG time = ([\d.e+-]+)/.exec(line)![1]);
     expect(time(late)).toBeGreaterThan(time(early));
