@@ -7,6 +7,8 @@ import { insertDemoDataset } from './demoDataset';
 import * as schema from './schema';
 import type { MemberRole } from './schema';
 
+export { demoBody, type DemoStep } from './demoBody';
+
 export interface DemoAccount {
   role: MemberRole;
   name: string;

@@ -8,6 +8,7 @@ import type { Duplex } from 'node:stream';
 import { checksBackgroundService } from './checks';
 import { collabService, collabUpgradeRoute } from './collab';
 import type { ServerConfig } from './config';
+import { demoBodyService } from './demoBody';
 import { reviewDemoService } from './review/demo';
 import { reviewBackgroundService } from './review/service';
 import { versionsDemoService } from './versions/demo';
@@ -38,4 +39,5 @@ export const upgradeRoutes: UpgradeRoute[] = [collabUpgradeRoute];
 // Review hears both (document changes for sign-offs, verdict changes for mail): it comes last.
 // The demo's locked version is made once the demo body is in the working copy: keep it last.
 // The demo review (remarks, a sign-off) reads the same body.
-export const services: Service[] = [collabService, checksBackgroundService, reviewBackgroundService, versionsDemoService, reviewDemoService];
+// The demo body is written once the checks listen and before the demo version and review read it.
+export const services: Service[] = [collabService, checksBackgroundService, demoBodyService, reviewBackgroundService, versionsDemoService, reviewDemoService];
