@@ -35,6 +35,8 @@ export interface EvidencePanelProps {
   onCancel: () => void;
   onClose: () => void;
   onShowInText: () => void;
+  /** Further evidence from elsewhere, e.g. an attached dataset (components/datasets). */
+  extra?: ReactNode;
 }
 
 // ----- numbers ---------------------------------------------------------------------------------
@@ -353,6 +355,7 @@ export function EvidencePanel(props: EvidencePanelProps) {
           </dl>
         </Section>
       )}
+      {props.extra}
     </article>
   );
 }

@@ -5,6 +5,7 @@
 // a block knows (its group it need not).
 import { useEffect, useId, useMemo, useState } from 'react';
 import { agreesWithExponent, fitPowerLog, FitInputError, type ExponentAgreement, type PowerLogFit } from '@/flow/fit';
+import type { ClaimResult } from '@/flow/types';
 import { PlotFrame, type PlotSeries } from '../plot';
 import { AgreementVerdict, formatNumber } from './FitPanel';
 import { axisLabel, datasetPlotSeries, fitPlotSeries, rangeOf, type SeriesInput } from './series';
@@ -203,6 +204,67 @@ export function DatasetEvidence({
         series={drawn}
         height={260}
       />
+    </section>
+  );
+}
+
+/**
+ * The claimed and the measured exponents of a log-exponent check's result, O ~ t^-x |ln t|^p.
+ * `writes` says which the claim states (its "value" p and "power" x fields), since a result that
+ * claims one exponent carries it as a bare number.
+ */
+export function lawsFromResult(result: ClaimResult | null, writes: { value: boolean; power: boolean }): { claimed: ClaimedLaw; measured: ClaimedLaw } | null {
+  if (!result || (!writes.value && !writes.power)) return null;
+  const pick = (m: ClaimResult['measured'], name: 'p' | 'x'): number | null => {
+    if (typeof m === 'number') return (name === 'p' ? writes.value : !writes.value && writes.power) ? m : null;
+    if (m && !Array.isArray(m) && typeof m[name] === 'number') return m[name]!;
+    return null;
+  };
+  const claimed: ClaimedLaw = { logPower: pick(result.expected, 'p'), power: pick(result.expected, 'x') };
+  if (claimed.logPower === null && claimed.power === null) return null;
+  const measuredX = result.evidence.values?.['x, measured'];
+  const measured: ClaimedLaw = { logPower: pick(result.measured, 'p'), power: typeof measuredX === 'number' ? measuredX : pick(result.measured, 'x') };
+  return { claimed, measured };
+}
+
+/**
+ * The part of a log-exponent claim's evidence that comes from data: which dataset is attached (a
+ * choice for those who may edit), and whether its numbers agree with the claimed exponents, drawn
+ * beside the claimed law and the flow's prediction.
+ */
+export function ClaimDatasetSection({
+  derivationId,
+  datasetId,
+  onChange,
+  canEdit,
+  result,
+  writes,
+}: {
+  derivationId: string;
+  datasetId: string | null;
+  onChange: (datasetId: string | null) => void;
+  canEdit: boolean;
+  result: ClaimResult | null;
+  writes: { value: boolean; power: boolean };
+}) {
+  const { value, power } = writes;
+  const laws = useMemo(() => lawsFromResult(result, { value, power }), [result, value, power]);
+  // Shown at once; the document's attribute (shared with co-authors) follows through onChange.
+  const [chosen, setChosen] = useState(datasetId);
+  useEffect(() => setChosen(datasetId), [datasetId]);
+  const choose = (id: string | null) => {
+    setChosen(id);
+    onChange(id);
+  };
+  return (
+    <section aria-label="Data beside the claim" className="mt-3 flex flex-col gap-2 border-t border-rule pt-2" data-testid="claim-dataset">
+      <AttachDatasetPicker derivationId={derivationId} datasetId={chosen} onChange={choose} disabled={!canEdit} label="Compare with a dataset" />
+      {chosen &&
+        (laws ? (
+          <DatasetEvidence derivationId={derivationId} datasetId={chosen} law={laws.claimed} prediction={laws.measured} />
+        ) : (
+          <p className="text-sm text-ink-faint">The data are compared once the check has a result with a claimed exponent.</p>
+        ))}
     </section>
   );
 }

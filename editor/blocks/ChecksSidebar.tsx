@@ -3,13 +3,16 @@
 // it), the evidence of the claim opened from its block, and the claim file: export the
 // derivation's checks as the solver's claim file, or import one as new flow and claim blocks.
 import type { Editor } from '@tiptap/core';
+import type { Node as ProseMirrorNode } from '@tiptap/pm/model';
 import { useCallback, useEffect, useId, useMemo, useRef, useState, useSyncExternalStore, type ChangeEvent, type ReactNode } from 'react';
 import { CheckSummary, type SummaryEntry } from '@/components/checks/CheckSummary';
 import { EvidencePanel, type EvidenceRun } from '@/components/checks/EvidencePanel';
+import { ClaimDatasetSection } from '@/components/datasets/attach';
 import { downloadText } from '@/components/plot';
 import { KIND_LABELS, claimFields, isClaimKind } from '@/flow/document/layout';
 import type { FieldError } from '@/flow/types';
 import { tightItem } from '../worker/fieldsLogic';
+import { useDerivationId } from '../derivationContext';
 import { liveChecksOf, type ClaimView, type ExportChoice, type LiveChecks } from './live';
 import { shownVerdict } from './verdictOf';
 
@@ -44,6 +47,34 @@ function writtenFields(editor: Editor, stepId: string): { label: string; text: s
     found = specs.filter((spec) => (texts.get(spec.key) ?? '').trim() !== '').map((spec) => ({ label: spec.label, text: texts.get(spec.key)!.trim() }));
   });
   return found;
+}
+
+/** The claim block of a step, for the dataset attached to it. */
+function claimNode(editor: Editor, stepId: string): { node: ProseMirrorNode; pos: number } | null {
+  let found: { node: ProseMirrorNode; pos: number } | null = null;
+  editor.state.doc.forEach((node, pos) => {
+    if (node.attrs.stepId === stepId && node.type.name === 'claimBlock') found = { node, pos };
+  });
+  return found;
+}
+
+function claimDataset(editor: Editor, stepId: string): string | null {
+  const dataset = claimNode(editor, stepId)?.node.attrs.dataset;
+  return typeof dataset === 'string' && dataset ? dataset : null;
+}
+
+function setClaimDataset(editor: Editor, stepId: string, dataset: string | null): void {
+  const found = claimNode(editor, stepId);
+  if (found) editor.view.dispatch(editor.state.tr.setNodeAttribute(found.pos, 'dataset', dataset));
+}
+
+/** The fields of a claim that are filled in, by key. */
+function writtenKeys(editor: Editor, stepId: string): Set<string> {
+  const keys = new Set<string>();
+  claimNode(editor, stepId)?.node.forEach((field) => {
+    if (typeof field.attrs.field === 'string' && field.textContent.trim() !== '') keys.add(field.attrs.field);
+  });
+  return keys;
 }
 
 function flowLabel(view: ClaimView): string | null {
@@ -195,6 +226,7 @@ export function ChecksSidebar({ editor, title, canEdit }: { editor: Editor; titl
   const snapshot = useSyncExternalStore(subscribe, () => live.snapshot(), () => live.snapshot());
   const entries = useMemo(() => summaryEntries(snapshot.claims), [snapshot.claims]);
   const open = snapshot.evidenceFor ? snapshot.claims.find((c) => c.info.stepId === snapshot.evidenceFor) : undefined;
+  const derivationId = useDerivationId();
 
   let evidence = null;
   if (open) {
@@ -220,6 +252,18 @@ export function ChecksSidebar({ editor, title, canEdit }: { editor: Editor; titl
         onCancel={() => live.cancel(stepId)}
         onClose={() => live.openEvidence(null)}
         onShowInText={() => showStep(editor, stepId)}
+        extra={
+          open.info.kind === 'log-exponent' && derivationId ? (
+            <ClaimDatasetSection
+              derivationId={derivationId}
+              datasetId={claimDataset(editor, stepId)}
+              onChange={(dataset) => setClaimDataset(editor, stepId, dataset)}
+              canEdit={canEdit}
+              result={verdict.result}
+              writes={{ value: writtenKeys(editor, stepId).has('value'), power: writtenKeys(editor, stepId).has('power') }}
+            />
+          ) : undefined
+        }
       />
     );
   }

@@ -152,6 +152,12 @@ export const ClaimBlock = Node.create({
         parseHTML: (element) => element.getAttribute('data-flow'),
         renderHTML: (attributes) => (attributes.flow ? { 'data-flow': attributes.flow } : {}),
       },
+      // A dataset of the group the claim's evidence compares with (log-exponent claims).
+      dataset: {
+        default: null,
+        parseHTML: (element) => element.getAttribute('data-dataset'),
+        renderHTML: (attributes) => (attributes.dataset ? { 'data-dataset': attributes.dataset } : {}),
+      },
     };
   },
 
