@@ -1,9 +1,8 @@
 'use client';
 // Every evidence plot of a version, drawn in the shared plot frame; each is saved as SVG with its
 // own button (the trajectory plots of the text are saved from their blocks).
-import { PlotFrame } from '@/components/plot';
+import { PlotFrame, evidencePlot } from '@/components/plot';
 import type { VersionClaim } from '@/server/versions/types';
-import { evidencePlot } from './ClaimVerdicts';
 
 export function Figures({ claims }: { claims: VersionClaim[] }) {
   const plots = claims.flatMap((claim) => (claim.result.evidence.plots ?? []).map((plot, i) => ({ claim, plot, key: `${claim.stepId}-${i}` })));

@@ -143,7 +143,15 @@ describe('a reader follows the shared locked version', () => {
     expect(await text.textContent()).toContain('to first order.');
     const claims = page.locator('[data-claim]');
     expect(await claims.count()).toBe(2);
-    for (const claim of await claims.all()) expect(await claim.locator('summary').textContent()).toContain('holds');
+    for (const claim of await claims.all()) expect(await claim.locator('[data-verdict]').first().getAttribute('data-verdict')).toBe('holds');
+    // Each claim's evidence is the stored result: the located fixed point beside the claimed one.
+    const series = page.locator('[data-claim="fixed-point-eps2"]');
+    await series.getByRole('button', { name: 'Evidence' }).click();
+    const evidence = series.locator('[data-evidence-panel]');
+    await evidence.waitFor();
+    expect(await evidence.textContent()).toContain('A numerical check is evidence, not a proof');
+    // g* at n = 0, eps = 0.1 from the two-loop flow: 3 eps/8 + 126 eps^2/512 + O(eps^3) = 0.0400 (Kleinert and Schulte-Frohlinde 2001).
+    expect(await evidence.textContent()).toMatch(/0\.040\d*/);
     // The reader may not change it: the text is not editable and nothing offers to lock or share.
     expect(await text.locator('.derivation-text').getAttribute('contenteditable')).toBe('false');
     expect(await page.getByRole('button', { name: 'Lock the working copy' }).count()).toBe(0);
