@@ -126,12 +126,26 @@ export interface DatasetVerdicts {
 }
 
 /**
- * Whether the data agree with a claim O ~ t^-x |ln t|^p: each claimed exponent tested with the other
- * held at its claimed value (or free when the claim leaves it open). In the fit's terms a = -x.
+ * What the dataset's abscissa is in the claim's terms: the scaling variable t itself (a reduced
+ * temperature), or its inverse (a walk length T ~ 1/t). |ln t| is the same either way; the power is
+ * a = -x against t and a = +x against 1/t.
  */
-export function datasetVerdicts(series: SeriesInput, law: ClaimedLaw): DatasetVerdicts {
+export type Abscissa = 't' | 'inverse';
+
+/** A first guess: an abscissa that reaches above 1 is taken for 1/t (walk lengths, sizes), otherwise for t. */
+export function guessAbscissa(series: SeriesInput): Abscissa {
+  return rangeOf(series.x.values)[1] > 1 ? 'inverse' : 't';
+}
+
+const powerOf = (law: ClaimedLaw, abscissa: Abscissa): number | null => (law.power == null ? null : abscissa === 'inverse' ? law.power : -law.power);
+
+/**
+ * Whether the data agree with a claim O ~ t^-x |ln t|^p: each claimed exponent tested with the other
+ * held at its claimed value (or free when the claim leaves it open).
+ */
+export function datasetVerdicts(series: SeriesInput, law: ClaimedLaw, abscissa: Abscissa = 't'): DatasetVerdicts {
   const data = { x: series.x.values, y: series.y.values, sigma: series.sigma?.values ?? null };
-  const a = law.power == null ? null : -law.power;
+  const a = powerOf(law, abscissa);
   const p = law.logPower ?? null;
   try {
     const agreements: ExponentAgreement[] = [];
@@ -146,12 +160,12 @@ export function datasetVerdicts(series: SeriesInput, law: ClaimedLaw): DatasetVe
 }
 
 /** The law with both exponents held and only its amplitude fitted to the data, or null when it cannot be. */
-function amplitudeFitted(series: SeriesInput, law: ClaimedLaw): PowerLogFit | null {
+function amplitudeFitted(series: SeriesInput, law: ClaimedLaw, abscissa: Abscissa): PowerLogFit | null {
   if (law.power == null && law.logPower == null) return null;
   try {
     return fitPowerLog(
       { x: series.x.values, y: series.y.values, sigma: series.sigma?.values ?? null },
-      { a: law.power == null ? null : -law.power, p: law.logPower ?? null },
+      { a: powerOf(law, abscissa), p: law.logPower ?? null },
     );
   } catch {
     return null;
@@ -175,8 +189,13 @@ export function DatasetEvidence({
   prediction?: ClaimedLaw;
 }) {
   const loaded = useDatasetSeries(derivationId, datasetId);
-  const verdicts = useMemo(() => (loaded?.state === 'ready' ? datasetVerdicts(loaded.value, law) : null), [loaded, law]);
-  const predicted = useMemo(() => (loaded?.state === 'ready' && prediction ? amplitudeFitted(loaded.value, prediction) : null), [loaded, prediction]);
+  const [chosenAbscissa, setAbscissa] = useState<Abscissa | null>(null);
+  const abscissa = chosenAbscissa ?? (loaded?.state === 'ready' ? guessAbscissa(loaded.value) : 't');
+  const verdicts = useMemo(() => (loaded?.state === 'ready' ? datasetVerdicts(loaded.value, law, abscissa) : null), [loaded, law, abscissa]);
+  const predicted = useMemo(
+    () => (loaded?.state === 'ready' && prediction ? amplitudeFitted(loaded.value, prediction, abscissa) : null),
+    [loaded, prediction, abscissa],
+  );
   if (!loaded || loaded.state === 'loading') return <p className="text-ink-faint" role="status">Loading the dataset…</p>;
   if (loaded.state === 'error') return <p role="alert" className="text-verdict-fails">The dataset could not be loaded: {loaded.message}</p>;
   const series = loaded.value;
@@ -189,6 +208,13 @@ export function DatasetEvidence({
   return (
     <section aria-label="Evidence from the dataset" className="flex flex-col gap-2" data-testid="dataset-evidence">
       <h4 className="font-semibold">Data: {series.name}</h4>
+      <label className="inline-flex flex-wrap items-center gap-2 text-sm">
+        <span className="text-ink-soft">Its x, “{series.x.quantity}”, is</span>
+        <select value={abscissa} onChange={(e) => setAbscissa(e.target.value as Abscissa)} className="rounded border border-rule bg-white/70 px-2 py-0.5">
+          <option value="t">the scaling variable t itself</option>
+          <option value="inverse">its inverse, 1/t (e.g. a walk length T)</option>
+        </select>
+      </label>
       {verdicts?.error && <p role="alert" className="text-verdict-fails">{verdicts.error}</p>}
       {verdicts?.agreements.map((agreement) => <AgreementVerdict key={agreement.parameter} agreement={agreement} />)}
       {verdicts?.claimedFit && (

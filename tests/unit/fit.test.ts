@@ -4,7 +4,8 @@
 import { describe, expect, test } from 'vitest';
 import { agreesWithExponent, chiSquareSurvival, evaluateFit, fitPowerLog, FitInputError, powerLog } from '../../flow/fit';
 import { generator } from '../../flow/numerics/random';
-import { datasetVerdicts } from '../../components/datasets/attach';
+import { datasetVerdicts, guessAbscissa, lawsFromResult } from '../../components/datasets/attach';
+import type { ClaimResult } from '../../flow/types';
 
 /** Standard normal deviates by Box–Muller from a fixed random start. */
 function normals(start: number): () => number {
@@ -259,5 +260,36 @@ describe('a log-exponent claim judged by an attached dataset', () => {
   test('data the law cannot take are reported, not thrown', () => {
     const bad = { ...series, x: { ...series.x, values: [-1, ...series.x.values.slice(1)] } };
     expect(datasetVerdicts(bad, { logPower: 0.25 }).error).toMatch(/positive/);
+  });
+});
+
+describe('reading a log-exponent check result for the dataset comparison', () => {
+  const result = (expected: ClaimResult['expected'], measured: ClaimResult['measured'], xMeasured: number) =>
+    ({ expected, measured, evidence: { values: { 'x, measured': xMeasured } } }) as unknown as ClaimResult;
+
+  test('a claim of both exponents, of p alone and of x alone gives the claimed and the measured law', () => {
+    expect(lawsFromResult(result({ p: 0.25, x: 1 }, { p: 0.2499, x: 1 }, 1), { value: true, power: true })).toEqual({
+      claimed: { logPower: 0.25, power: 1 },
+      measured: { logPower: 0.2499, power: 1 },
+    });
+    expect(lawsFromResult(result(0.25, 0.251, 1), { value: true, power: false })?.claimed).toEqual({ logPower: 0.25, power: null });
+    expect(lawsFromResult(result(1, 1.0001, 1.0001), { value: false, power: true })?.claimed).toEqual({ logPower: null, power: 1 });
+    expect(lawsFromResult(null, { value: true, power: true })).toBeNull();
+  });
+
+  test('walk sizes against T ~ 1/t agree with x = 1 read as T^(+1); the same claim read against t itself disagrees', () => {
+    // R² ~ T (ln T)^(1/4) for chains at d = 4 (REFERENCES.md, from memory); T plays 1/t.
+    const walks = drawn({ A: 1.3, a: 1, p: 0.25 }, geometric(1e2, 1e7, 20), 0.004, normals(8));
+    const series = {
+      name: 'walks',
+      x: { quantity: 'walk length T', unit: '', values: walks.x },
+      y: { quantity: 'size', unit: '', values: walks.y },
+      sigma: { values: walks.sigma },
+    };
+    expect(guessAbscissa(series)).toBe('inverse');
+    const asInverse = datasetVerdicts(series, { power: 1, logPower: 0.25 }, 'inverse');
+    expect(asInverse.agreements.map((v) => v.verdict)).toEqual(['agrees', 'agrees']);
+    const asT = datasetVerdicts(series, { power: 1, logPower: 0.25 }, 't');
+    expect(asT.agreements.find((v) => v.parameter === 'a')?.verdict).not.toBe('agrees');
   });
 });
