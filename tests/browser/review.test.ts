@@ -1,13 +1,15 @@
 // In Debian's Chromium, the reviewer's story: a student (reviewer) opens a derivation read-only,
-// picks a step, leaves a remark on it and signs it off ("checked by" with name and time, shown in
-// the margin at the step); the author's edit of that step clears the sign-off, saying why; the
-// author follows the mail's link to the remark.
+// opens a claim's evidence, runs it again with tighter settings, leaves a remark on the claim's
+// step and signs it off ("checked by" with name and time, shown in the margin at the step); the
+// author's edit of the flow block the claim depends on clears the sign-off, saying why; the author
+// follows the mail's link to the remark and replies.
 import { randomUUID } from 'node:crypto';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, test } from 'vitest';
+import { claimBlockNode, flowBlockNode } from '../../flow/document';
 import { demoAccount, demoSessions, launchBrowser, linkIn, readMailbox, startServer, waitForMail, type DemoSessions, type StartedServer } from '../helpers';
 import { connectClient, type CollabClient } from '../integration/collabClients';
-import { appendSteps, appendToParagraph, paragraph } from '../integration/reviewDocuments';
+import { appendSteps, paragraph, setField, withStepId } from '../integration/reviewDocuments';
 
 let server: StartedServer;
 let browser: Browser;
@@ -36,37 +38,53 @@ async function signedInPage(cookie: string): Promise<Page> {
   return context.newPage();
 }
 
-test('a reviewer leaves a remark on a step and signs it off; an edit clears the sign-off with the reason; the author follows the mail to the remark', async () => {
-  const created = await demo.as.author.post<{ id: string }>(`/api/groups/${demo.groupId}/derivations`, { title: 'Review: one-loop flow at d = 4' });
+test('a reviewer opens a claim, sees the evidence, runs it again, remarks on the step and signs it off; an edit of its flow clears the sign-off; the author follows the mail to the remark', async () => {
+  const created = await demo.as.author.post<{ id: string }>(`/api/groups/${demo.groupId}/derivations`, { title: 'Review: one-loop flow below d = 4' });
   const id = created.body.id;
   const author = connectClient(server.url, id, { cookie: demo.cookies.author });
   clients.push(author);
   await author.synced();
-  const steps = [randomUUID(), randomUUID(), randomUUID()];
+  const flowStep = randomUUID();
+  const claimStep = randomUUID();
   appendSteps(author.doc, [
-    paragraph('At four dimensions the quartic coupling is marginal.', steps[0]),
-    paragraph('The flow is dg/dl = -b g^2 with b = (n+8)/6.', steps[1]),
-    paragraph('So g(l) falls like 1/(b l) far in the infrared.', steps[2]),
+    paragraph('Below four dimensions the quartic coupling flows to a fixed point of order eps.', randomUUID()),
+    // dg/dl = eps g - g^2 has its nontrivial fixed point at g* = eps (common practice).
+    withStepId(flowBlockNode({ couplings: ['g'], convention: 'ir', parameters: { eps: 0.1 }, beta: { g: 'eps*g - g^2' } }, { name: 'one loop' }), flowStep),
+    withStepId(claimBlockNode({ kind: 'fixed-point', id: 'gstar', near: { g: 0.08 }, value: { g: 'eps' } }), claimStep),
+    paragraph('So the coupling at the fixed point is small when eps is.', randomUUID()),
   ]);
 
   const reviewer = await signedInPage(demo.cookies.reviewer);
   await reviewer.goto(`${server.url}/derivations/${id}`);
-  const text = reviewer.getByRole('textbox', { name: 'Review: one-loop flow at d = 4' });
-  await text.getByText('The flow is dg/dl').waitFor();
+  const text = reviewer.getByRole('textbox', { name: 'Review: one-loop flow below d = 4' });
+  await text.getByText('Below four dimensions').waitFor();
   expect(await text.getAttribute('aria-readonly')).toBe('true');
 
-  // Clicking the step opens its card in the margin.
-  await text.getByText('The flow is dg/dl').click();
-  const card = reviewer.getByRole('region', { name: 'Review of step 2' });
+  // The claim's evidence: what the solver measured, then the same check with tighter settings.
+  const claim = reviewer.locator(`[data-step-id="${claimStep}"]`);
+  await claim.getByText('holds', { exact: true }).first().waitFor({ timeout: 60_000 });
+  await claim.getByRole('button', { name: 'Evidence' }).click();
+  const evidence = reviewer.getByRole('article', { name: /^Evidence: Claim 1/ });
+  await evidence.waitFor();
+  expect(await evidence.textContent()).toContain('Measured and claimed');
+  expect(await evidence.textContent()).toContain('A numerical check is evidence, not a proof');
+  await evidence.getByRole('button', { name: 'Run again with tighter settings' }).click();
+  await evidence.getByText('With tighter settings:').waitFor({ timeout: 60_000 });
+  expect(await evidence.locator('th', { hasText: 'tighter settings' }).count()).toBe(1);
+  await evidence.getByRole('button', { name: 'Close' }).click();
+
+  // Choosing the claim's step opens its card in the margin (the keyboard way: the chooser).
+  await reviewer.getByLabel('Review a step', { exact: true }).selectOption({ label: '3. Claim "gstar" (fixed point)' });
+  const card = reviewer.getByRole('region', { name: 'Review of step 3' });
   await card.waitFor();
   expect(await card.textContent()).toContain('Not signed off.');
 
   await card.getByRole('button', { name: 'Leave a remark' }).click();
-  await card.getByLabel('Your remark on this step', { exact: true }).fill('Which convention for l? With l = -ln mu the sign of b flips.');
+  await card.getByLabel('Your remark on this step', { exact: true }).fill('Newton from g = 0.08 finds g* = eps; is the trivial fixed point ruled out as the intended one?');
   const beforeMail = await readMailbox(server.url, { to: demoAccount('author').email });
   await card.getByRole('button', { name: 'Leave remark' }).click();
   await card.getByRole('article', { name: `Remark thread by ${demoAccount('reviewer').name}` }).waitFor();
-  expect(await card.textContent()).toContain('Which convention for l?');
+  expect(await card.textContent()).toContain('is the trivial fixed point ruled out');
 
   await card.getByRole('button', { name: 'Sign off this step' }).click();
   const checked = card.locator('[data-sign-off]');
@@ -74,19 +92,19 @@ test('a reviewer leaves a remark on a step and signs it off; an edit clears the 
   expect(await checked.textContent()).toMatch(new RegExp(`^Checked by ${demoAccount('reviewer').name}, \\d{1,2} \\w{3} \\d{4}, \\d{2}:\\d{2}`));
 
   // The margin's note beside the step says it in words; keyboard users reach it too.
-  await card.getByRole('button', { name: 'Close the step\'s review' }).click();
-  const note = reviewer.getByRole('button', { name: /^Step 2: checked by Ilse Brandvold; 1 open remark\. Open its review\.$/ });
+  await card.getByRole('button', { name: "Close the step's review" }).click();
+  const note = reviewer.getByRole('button', { name: /^Step 3: checked by Ilse Brandvold; 1 open remark\. Open its review\.$/ });
   await note.waitFor();
-  await note.focus();
+  expect(await note.evaluate((element) => element === document.activeElement)).toBe(true);
   await reviewer.keyboard.press('Enter');
   await card.waitFor();
   await reviewer.screenshot({ path: '/tmp/review-signed-off.png', fullPage: true });
 
-  // The author edits the step: the sign-off goes, and the card says why and whose edit it was.
-  appendToParagraph(author.doc, steps[1]!, ' (one loop)');
+  // The author changes the flow the claim is checked against: the sign-off goes, and the card says why.
+  setField(author.doc, flowStep, 'value', 'eps*g - 2*g^2', 'beta');
   const cleared = card.locator('[data-sign-off-cleared]');
   await cleared.waitFor({ timeout: 20_000 });
-  expect(await cleared.textContent()).toContain('the step was edited after the sign-off');
+  expect(await cleared.textContent()).toContain('the flow block it depends on was edited after the sign-off');
   expect(await cleared.textContent()).toContain(`(edit by ${demoAccount('author').name})`);
   expect(await card.getByRole('button', { name: 'Sign off this step' }).isVisible()).toBe(true);
 
@@ -94,18 +112,18 @@ test('a reviewer leaves a remark on a step and signs it off; an edit clears the 
   const mail = await waitForMail(server.url, { to: demoAccount('author').email, subject: /remark on your step/, notIn: beforeMail });
   const authorPage = await signedInPage(demo.cookies.author);
   await authorPage.goto(linkIn(mail, `/derivations/${id}`));
-  const authorCard = authorPage.getByRole('region', { name: 'Review of step 2' });
+  const authorCard = authorPage.getByRole('region', { name: 'Review of step 3' });
   await authorCard.waitFor();
-  expect(await authorCard.textContent()).toContain('Which convention for l?');
+  expect(await authorCard.textContent()).toContain('is the trivial fixed point ruled out');
   // An author may reply but not sign off.
   expect(await authorCard.getByRole('button', { name: 'Sign off this step' }).count()).toBe(0);
   await authorCard.getByRole('button', { name: 'Reply' }).click();
-  await authorCard.getByLabel('Your reply', { exact: true }).fill('l = ln(mu0/mu): the infrared is l to infinity.');
+  await authorCard.getByLabel('Your reply', { exact: true }).fill('Yes: g* = 0 is unstable below d = 4; the claim names the start near eps.');
   await authorCard.getByRole('button', { name: 'Reply', exact: true }).click();
-  await authorCard.getByText('l = ln(mu0/mu)').waitFor();
+  await authorCard.getByText('g* = 0 is unstable').waitFor();
 
   // Every remark is listed below the text as well.
   const list = reviewer.getByRole('region', { name: 'Remarks' });
-  await list.getByText('Step 2').waitFor();
+  await list.getByText('Step 3').waitFor();
   await list.getByText('1 reply').waitFor({ timeout: 15_000 });
 });

@@ -3,7 +3,7 @@
 // step's card), and the list of every remark below. It wraps the whiteboard without touching it:
 // steps are found in the editor's DOM by their data-step-id.
 import { useQuery, useQueryClient } from '@tanstack/react-query';
-import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
+import { useCallback, useEffect, useId, useMemo, useRef, useState, type ReactNode } from 'react';
 import { RemarkIndex } from '@/components/review/RemarkIndex';
 import { StepCard } from '@/components/review/StepCard';
 import { StepMargin, stepElement } from '@/components/review/StepMargin';
@@ -186,10 +186,14 @@ export function ReviewPane({
 
 /** A keyboard way to any step: choose it by its number and text. */
 function StepChooser({ steps, selected, onChoose }: { steps: ReviewWire['steps']; selected: string | null; onChoose: (stepId: string | null) => void }) {
+  const id = useId();
   return (
-    <label className="flex flex-col gap-0.5 text-xs text-ink-soft">
-      <span className="font-semibold tracking-wide">Review a step</span>
+    <div className="flex flex-col gap-0.5 text-xs text-ink-soft">
+      <label htmlFor={id} className="font-semibold tracking-wide">
+        Review a step
+      </label>
       <select
+        id={id}
         value={selected ?? ''}
         onChange={(event) => onChoose(event.target.value || null)}
         className="w-full rounded border border-rule bg-white/70 px-1.5 py-1 text-sm text-ink focus:border-accent"
@@ -201,6 +205,6 @@ function StepChooser({ steps, selected, onChoose }: { steps: ReviewWire['steps']
           </option>
         ))}
       </select>
-    </label>
+    </div>
   );
 }
