@@ -10,26 +10,16 @@ import { StatusWord } from '@/components/StatusWord';
 import { Button, Notice, SelectField, TextField, When } from '@/components/ui';
 import { ApiFailure, fetchJson } from '@/app/_lib/fetchJson';
 import type { Action, Wire } from '@/app/_lib/wire';
-import type { RefusedClaim, VersionDetail, VersionSummary } from '@/server/versions/types';
+import type { VersionDetail, VersionSummary } from '@/server/versions/types';
+import { LockRefusal, requestLock, type LockResult } from './LockRefusal';
 
 interface Props {
   derivationId: string;
   actions: readonly Action[];
 }
 
-type LockResult = { kind: 'locked'; version: Wire<VersionDetail> } | { kind: 'refused'; error: string; claims: RefusedClaim[] } | { kind: 'error'; error: string };
-
-async function lockNow(derivationId: string, name: string): Promise<LockResult> {
-  const response = await fetch(`/api/derivations/${derivationId}/lock`, {
-    method: 'POST',
-    headers: { 'content-type': 'application/json' },
-    body: JSON.stringify(name.trim() ? { name } : {}),
-    credentials: 'same-origin',
-  });
-  const payload = (await response.json().catch(() => null)) as (Wire<VersionDetail> & { error?: string; claims?: RefusedClaim[] }) | null;
-  if (response.ok && payload) return { kind: 'locked', version: payload };
-  if (response.status === 409 && payload?.claims) return { kind: 'refused', error: payload.error ?? 'The lock was refused.', claims: payload.claims };
-  return { kind: 'error', error: payload?.error ?? `The server answered ${response.status}.` };
+async function lockNow(derivationId: string, name: string): Promise<LockResult<Wire<VersionDetail>>> {
+  return requestLock<Wire<VersionDetail>>(`/api/derivations/${derivationId}/lock`, name.trim() ? { name } : {});
 }
 
 export function VersionsPanel({ derivationId, actions }: Props) {
@@ -178,28 +168,7 @@ export function VersionsPanel({ derivationId, actions }: Props) {
               {lock.isPending ? 'Checking every claim…' : 'Lock the working copy'}
             </Button>
           </form>
-          {lock.data?.kind === 'refused' && (
-            <div className="mt-3" data-lock-refused>
-              <Notice kind="error">
-                {lock.data.error}
-                <ul className="mt-1 list-none space-y-1">
-                  {lock.data.claims.map((claim) => (
-                    <li key={claim.stepId} className="flex flex-wrap gap-x-2">
-                      <StatusWord status={claim.status} />
-                      <button
-                        type="button"
-                        className="font-mono underline"
-                        onClick={() => document.querySelector(`[data-step-id="${claim.stepId}"]`)?.scrollIntoView({ behavior: 'smooth', block: 'center' })}
-                      >
-                        {claim.claimId}
-                      </button>
-                      <span className="text-ink-soft">{claim.message}</span>
-                    </li>
-                  ))}
-                </ul>
-              </Notice>
-            </div>
-          )}
+          {lock.data?.kind === 'refused' && <LockRefusal error={lock.data.error} claims={lock.data.claims} />}
           {lock.data?.kind === 'error' && (
             <div className="mt-3">
               <Notice kind="error">{lock.data.error}</Notice>
