@@ -1,0 +1,217 @@
+// Benchmark of checked steps in Chromium (`npm run bench:steps`; needs a production build in
+// MARGINALIA_DIST_DIR, e.g. `MARGINALIA_DIST_DIR=.next-bench npx next build` first): the demo
+// derivation grown to 200 steps with 40 claims (tests/bench/stepsDocument.ts), then
+// - first render: from navigation to the first paint, to the whole document in the editor, and to
+//   a verdict on every claim (a fresh browser profile each time, so nothing comes from the device);
+// - keystroke to every dependent verdict: a digit typed into a parameter of a flow block with ten
+//   claims, until each of them shows its verdict for the new input;
+// - the main thread's longest task (PerformanceObserver 'longtask') while those checks run.
+// Goals: first render under 1.5 s, verdicts within 300 ms, no main-thread task over 50 ms.
+// Reports medians (and the spread); asserts nothing about time.
+import type { Browser, BrowserContext, Page } from 'playwright-core';
+import { readDocument, type DocNode } from '../../flow/document';
+import { demoSessions, launchBrowser, startServer, type DemoSessions, type StartedServer } from '../helpers';
+import { connectClient } from '../integration/collabClients';
+import { appendBlocks } from '../integration/checksDocument';
+import { growDocument, TARGET_CLAIMS, TARGET_STEPS } from './stepsDocument';
+
+const LOADS = Number(process.env.BENCH_LOADS ?? 7);
+const KEYSTROKES = Number(process.env.BENCH_KEYSTROKES ?? 15);
+const GOALS = { firstRenderMs: 1500, verdictsMs: 300, longestTaskMs: 50 };
+
+function median(values: number[]): number {
+  const sorted = [...values].sort((a, b) => a - b);
+  const mid = Math.floor(sorted.length / 2);
+  return sorted.length % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2;
+}
+
+function spread(values: number[]): string {
+  const sorted = [...values].sort((a, b) => a - b);
+  return `median ${median(values).toFixed(0)} ms (min ${sorted[0]!.toFixed(0)}, max ${sorted.at(-1)!.toFixed(0)}, n = ${values.length})`;
+}
+
+/** Grows the demo derivation's working copy to the benchmark's size; returns the edited flow and its claims. */
+async function grow(server: StartedServer, demo: DemoSessions): Promise<{ editedFlow: string; dependentClaims: string[] }> {
+  const client = connectClient(server.url, demo.derivationId, { cookie: demo.cookies.author });
+  await client.synced();
+  const { yXmlFragmentToProsemirrorJSON } = await import('@tiptap/y-tiptap');
+  const body = yXmlFragmentToProsemirrorJSON(client.doc.getXmlFragment('body')) as DocNode;
+  const steps = body.content?.length ?? 0;
+  const claims = readDocument(body).claims.length;
+  const grown = growDocument({ steps, claims });
+  appendBlocks(client.doc, grown.blocks);
+  // Wait until the server has stored the edit and checked it in the background, so its thread
+  // does not share the cores with the browser's first measurements.
+  const deadline = Date.now() + 120_000;
+  for (;;) {
+    const answer = await demo.as.author.get<{ pending: boolean; claims: unknown[] }>(`/api/derivations/${demo.derivationId}/checks`);
+    if (!answer.body.pending && answer.body.claims.length >= TARGET_CLAIMS) break;
+    if (Date.now() > deadline) throw new Error('the server did not check the grown derivation within two minutes');
+    await new Promise((resolve) => setTimeout(resolve, 250));
+  }
+  client.destroy();
+  const check = readDocument(yXmlFragmentToProsemirrorJSON(client.doc.getXmlFragment('body')) as DocNode);
+  console.log(`Derivation grown from ${steps} steps (${claims} claims) to ${steps + grown.blocks.length} steps (${check.claims.length} claims).`);
+  return grown;
+}
+
+async function signedInContext(browser: Browser, server: StartedServer, cookie: string): Promise<BrowserContext> {
+  const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+  const [name] = cookie.split('=');
+  await context.addCookies([{ name: name!, value: cookie.slice(name!.length + 1), url: server.url }]);
+  // Long tasks from the very start of the page, kept on the window.
+  await context.addInitScript(() => {
+    const w = window as unknown as { __longTasks: { start: number; duration: number }[] };
+    w.__longTasks = [];
+    try {
+      new PerformanceObserver((list) => {
+        for (const entry of list.getEntries()) w.__longTasks.push({ start: entry.startTime, duration: entry.duration });
+      }).observe({ type: 'longtask', buffered: true });
+    } catch {
+      // no long-task timing in this browser
+    }
+  });
+  return context;
+}
+
+interface LoadTimes {
+  firstPaint: number;
+  documentShown: number;
+  everyVerdict: number;
+  longestTask: number;
+}
+
+async function loadOnce(browser: Browser, server: StartedServer, demo: DemoSessions): Promise<LoadTimes> {
+  const context = await signedInContext(browser, server, demo.cookies.author);
+  const page = await context.newPage();
+  await page.goto(`${server.url}/derivations/${demo.derivationId}`);
+  await page.waitForFunction((steps) => document.querySelectorAll('.derivation-text > *').length >= steps, TARGET_STEPS, { timeout: 60_000, polling: 'raf' });
+  const documentShown = await page.evaluate(() => performance.now());
+  await page.waitForFunction(
+    (claims) => {
+      const blocks = document.querySelectorAll('.derivation-text section[data-claim-block], .derivation-text .claim-block');
+      if (blocks.length < claims) return false;
+      return Array.from(blocks).every((b) => ['holds', 'fails', 'inconclusive', 'invalid'].includes((b as HTMLElement).dataset.verdict ?? ''));
+    },
+    TARGET_CLAIMS,
+    { timeout: 120_000, polling: 'raf' },
+  );
+  const everyVerdict = await page.evaluate(() => performance.now());
+  const paint = await page.evaluate(() => performance.getEntriesByName('first-contentful-paint')[0]?.startTime ?? NaN);
+  const longestTask = await page.evaluate(() => Math.max(0, ...(window as unknown as { __longTasks: { duration: number }[] }).__longTasks.map((t) => t.duration)));
+  await context.close();
+  return { firstPaint: paint, documentShown, everyVerdict, longestTask };
+}
+
+/** The text of the value of the flow block's parameter `name` (its editable field text). */
+async function parameterField(page: Page, flowStepId: string, name: string) {
+  const rows = page.locator(`[data-step-id="${flowStepId}"] [data-row="parameter"]`);
+  const count = await rows.count();
+  for (let i = 0; i < count; i++) {
+    const text = rows.nth(i).locator('[data-field$=".name"] .block-field-text');
+    if (((await text.textContent()) ?? '').trim() === name) return rows.nth(i).locator('[data-field$=".value"] .block-field-text');
+  }
+  throw new Error(`no parameter ${name} in the flow block`);
+}
+
+async function keystrokes(browser: Browser, server: StartedServer, demo: DemoSessions, grown: { editedFlow: string; dependentClaims: string[] }) {
+  const context = await signedInContext(browser, server, demo.cookies.author);
+  const page = await context.newPage();
+  await page.goto(`${server.url}/derivations/${demo.derivationId}`);
+  await page.waitForFunction(
+    (ids) => ids.every((id) => ['holds', 'fails', 'inconclusive', 'invalid'].includes((document.querySelector(`[data-step-id="${id}"]`) as HTMLElement | null)?.dataset.verdict ?? '')),
+    grown.dependentClaims,
+    { timeout: 120_000, polling: 'raf' },
+  );
+  // Each dependent claim's verdict changes are recorded with their time.
+  await page.evaluate((ids) => {
+    const w = window as unknown as { __verdicts: Record<string, { at: number; state: string }[]> };
+    w.__verdicts = {};
+    for (const id of ids) {
+      const block = document.querySelector(`[data-step-id="${id}"]`) as HTMLElement;
+      w.__verdicts[id] = [];
+      new MutationObserver(() => w.__verdicts[id]!.push({ at: performance.now(), state: block.dataset.verdict ?? '' })).observe(block, { attributes: true, attributeFilter: ['data-verdict'] });
+    }
+  }, grown.dependentClaims);
+
+  const field = await parameterField(page, grown.editedFlow, 'eps');
+  await field.click();
+  await page.keyboard.press('End');
+  const delays: number[] = [];
+  const longest: number[] = [];
+  for (let k = 0; k < KEYSTROKES; k++) {
+    const started = await page.evaluate(() => {
+      const w = window as unknown as { __verdicts: Record<string, unknown[]>; __longTasks: unknown[] };
+      for (const list of Object.values(w.__verdicts)) list.length = 0;
+      w.__longTasks.length = 0;
+      return performance.now();
+    });
+    // A new digit each time (0.1 → 0.11 → 0.111 …, then starting again), so no result is cached.
+    await page.keyboard.press(String((k % 8) + 1));
+    const done = await page.waitForFunction(
+      (ids) => {
+        const w = window as unknown as { __verdicts: Record<string, { at: number; state: string }[]> };
+        const final = ['holds', 'fails', 'inconclusive', 'invalid'];
+        let last = 0;
+        for (const id of ids) {
+          const changes = w.__verdicts[id]!;
+          const current = (document.querySelector(`[data-step-id="${id}"]`) as HTMLElement).dataset.verdict ?? '';
+          if (!changes.some((c) => !final.includes(c.state)) || !final.includes(current)) return null;
+          last = Math.max(last, changes.at(-1)!.at);
+        }
+        return last;
+      },
+      grown.dependentClaims,
+      { timeout: 30_000, polling: 'raf' },
+    );
+    delays.push(((await done.jsonValue()) as number) - started);
+    longest.push(await page.evaluate(() => Math.max(0, ...(window as unknown as { __longTasks: { duration: number }[] }).__longTasks.map((t) => t.duration))));
+    // A pause between keystrokes, as between bursts of typing.
+    await page.waitForTimeout(300);
+    if ((k + 1) % 8 === 0) {
+      for (let d = 0; d < 8; d++) await page.keyboard.press('Backspace');
+      await page.waitForTimeout(1500);
+    }
+  }
+  await context.close();
+  return { delays, longest };
+}
+
+async function main(): Promise<void> {
+  const server = await startServer({ demo: true });
+  let browser: Browser | null = null;
+  try {
+    const demo = await demoSessions(server.url);
+    const grown = await grow(server, demo);
+    browser = await launchBrowser();
+    const loads: LoadTimes[] = [];
+    for (let i = 0; i < LOADS; i++) loads.push(await loadOnce(browser, server, demo));
+    const typed = await keystrokes(browser, server, demo, grown);
+
+    const tasks = (values: number[]) => (values.every((v) => v === 0) ? 'none over 50 ms' : `${spread(values)}; ${values.filter((v) => v > 0).length} of ${values.length} had one over 50 ms`);
+    const rows = [
+      ['first contentful paint', spread(loads.map((l) => l.firstPaint))],
+      [`whole document (${TARGET_STEPS} steps) in the editor`, spread(loads.map((l) => l.documentShown))],
+      [`a verdict on every claim (${TARGET_CLAIMS})`, spread(loads.map((l) => l.everyVerdict))],
+      ['longest main-thread task while loading', tasks(loads.map((l) => l.longestTask))],
+      [`keystroke to every dependent verdict (${grown.dependentClaims.length} claims)`, spread(typed.delays)],
+      ['longest main-thread task per keystroke while checks run', tasks(typed.longest)],
+    ];
+    console.log('\nChecked steps in Chromium (medians; the goals are 1.5 s, 300 ms, 50 ms):');
+    for (const [what, figure] of rows) console.log(`  ${what!.padEnd(62)} ${figure}`);
+    const ratio = (value: number, goal: number) => `${(value / goal).toFixed(2)} of the goal`;
+    console.log('\nAgainst the goals:');
+    console.log(`  whole document in the editor: ${ratio(median(loads.map((l) => l.documentShown)), GOALS.firstRenderMs)}`);
+    console.log(`  keystroke to every dependent verdict: ${ratio(median(typed.delays), GOALS.verdictsMs)}`);
+    const largest = Math.max(...typed.longest);
+    console.log(`  longest task while checks run: ${largest === 0 ? 'no task over 50 ms (the long-task timing reports only those)' : `${largest.toFixed(0)} ms at most, ${ratio(largest, GOALS.longestTaskMs)}`}`);
+  } finally {
+    await browser?.close();
+    await server.stop();
+  }
+}
+
+main().catch((error: unknown) => {
+  console.error(error);
+  process.exit(1);
+});
