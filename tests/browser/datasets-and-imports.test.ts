@@ -1,12 +1,16 @@
 // In Debian's Chromium: an author uploads a CSV, sees its first rows, says what the columns mean,
 // and finds the data drawn with their error bars beside a fit; a file with a ragged row is stopped
 // in the browser with its line number and nothing reaches the group's list; a .tex file imported
-// from the group's page opens as a derivation with its formulas typeset and its leftovers listed.
+// from the group's page opens as a derivation with its formulas typeset and its leftovers listed;
+// the demo's log-exponent claim, compared in its evidence with the demo's dataset, agrees with it.
 import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, test } from 'vitest';
+import { yXmlFragmentToProsemirrorJSON } from '@tiptap/y-tiptap';
+import { demoDatasetName } from '../../db/demoDataset';
 import { api, demoSessions, launchBrowser, repoRoot, startServer, type DemoSessions, type StartedServer } from '../helpers';
+import { connectClient } from '../integration/collabClients';
 import { generator } from '../../flow/numerics/random';
 
 let server: StartedServer;
@@ -142,4 +146,30 @@ test('a .tex file imported from the derivations page opens as a derivation with 
   expect(await page.locator('.math-inline .katex').count()).toBeGreaterThan(0);
   expect(await page.getByRole('heading', { name: 'Fixed point' }).count()).toBeGreaterThan(0);
   await page.screenshot({ path: path.join(repoRoot, 'tests/.artifacts/imported-derivation.png'), fullPage: true });
+});
+
+test('the demo’s log-exponent claim, compared in its evidence with the demo dataset, agrees with it within the errors', async () => {
+  // The demo's claim: R² ~ t^-1 |ln t|^((n+2)/(n+8)) at n = 0, i.e. T (ln T)^(1/4) (REFERENCES.md, from memory).
+  const client = connectClient(server.url, demo.derivationId, { cookie: demo.cookies.author, origin: server.url });
+  await client.synced();
+  const body = yXmlFragmentToProsemirrorJSON(client.doc.getXmlFragment('body')) as { content?: { type: string; attrs?: Record<string, unknown> }[] };
+  client.destroy();
+  const claim = body.content!.find((b) => b.type === 'claimBlock' && b.attrs?.kind === 'log-exponent')!;
+  const stepId = claim.attrs!.stepId as string;
+
+  await page.goto(`${server.url}/derivations/${demo.derivationId}`);
+  const block = page.locator(`[data-step-id="${stepId}"]`);
+  await block.getByText('holds', { exact: true }).first().waitFor({ timeout: 90_000 });
+  await block.getByRole('button', { name: 'Evidence' }).click();
+  const section = page.getByTestId('claim-dataset');
+  await section.waitFor();
+  await section.getByLabel('Compare with a dataset').selectOption({ label: `${demoDatasetName} (16 rows, error bars)` });
+  const evidence = page.getByTestId('dataset-evidence');
+  await evidence.waitFor();
+  expect(await evidence.getByRole('combobox').inputValue()).toBe('inverse'); // walk length T read as 1/t
+  const verdicts = evidence.getByTestId('agreement');
+  await expect.poll(() => verdicts.count()).toBe(2);
+  expect(await verdicts.evaluateAll((nodes) => nodes.map((n) => n.getAttribute('data-verdict')))).toEqual(['agrees', 'agrees']);
+  expect(await evidence.getByTestId('plot-frame').getAttribute('data-series')).toMatch(/claimed law, amplitude fitted.*flow’s prediction, amplitude fitted/);
+  await page.screenshot({ path: path.join(repoRoot, 'tests/.artifacts/claim-with-dataset.png'), fullPage: true });
 });
