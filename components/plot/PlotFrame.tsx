@@ -3,7 +3,7 @@
 // ticks, several curves (told apart by dash pattern as well as colour), data points with error
 // bars, markers (fixed points) labelled in words, a readout of the values under the pointer or
 // reached with the arrow keys, and "Save as SVG". It computes nothing: it draws what it is given.
-import { useCallback, useEffect, useId, useLayoutEffect, useMemo, useRef, useState, type KeyboardEvent, type PointerEvent, type ReactNode } from 'react';
+import { memo, useCallback, useEffect, useId, useLayoutEffect, useMemo, useRef, useState, type KeyboardEvent, type PointerEvent, type ReactNode } from 'react';
 import {
   CartesianGrid,
   Curve,
@@ -275,6 +275,9 @@ function axisOf(axis: PlotAxis, values: () => number[]): { domain: Domain | null
   return axis.domain ? linearAxis(axis.domain, true) : linearAxis(domainOf(values(), false, false), false);
 }
 
+const NO_MARKERS: PlotMarker[] = [];
+const NO_NOTES: string[] = [];
+
 function readoutOf(point: { x: number; y: number; readout?: ReadoutEntry[] }, x: PlotAxis, y: PlotAxis): ReadoutEntry[] {
   return point.readout ?? [
     { name: x.label, value: point.x },
@@ -286,7 +289,7 @@ function readoutText(entries: ReadoutEntry[]): string {
   return entries.map((e) => `${e.name} = ${readoutNumber(e.value)}`).join(', ');
 }
 
-export function PlotFrame({ title, x, y, series, markers = [], height = 340, description, notes = [], fileName, actions }: PlotFrameProps) {
+function PlotFrameDrawing({ title, x, y, series, markers = NO_MARKERS, height = 340, description, notes = NO_NOTES, fileName, actions }: PlotFrameProps) {
   const logX = x.scale === 'log';
   const logY = y.scale === 'log';
   const [measure, width] = useWidth();
@@ -519,3 +522,6 @@ export function PlotFrame({ title, x, y, series, markers = [], height = 340, des
     </figure>
   );
 }
+
+/** Drawn again only when what it is given changes (a block around it may render often). */
+export const PlotFrame = memo(PlotFrameDrawing);

@@ -5,7 +5,7 @@
 // with flow/trajectory.ts a moment after the flow or the starts change.
 import type { Node as ProseMirrorNode } from '@tiptap/pm/model';
 import { NodeViewContent, NodeViewWrapper, type NodeViewProps } from '@tiptap/react';
-import { useEffect, useMemo, useRef, useState } from 'react';
+import { startTransition, useEffect, useMemo, useRef, useState } from 'react';
 import { AttachDatasetPicker, useDatasetOverlay } from '@/components/datasets/attach';
 import { PlotFrame } from '@/components/plot';
 import type { FlowSpec, TrajectoryResult, ValueInput } from '@/flow';
@@ -189,8 +189,12 @@ export function PlotBlockView(props: NodeViewProps) {
       const numbers = ready.map((s) => starts.indexOf(s) + 1);
       void traceInWorker(owner.current, spec, traceOptions(settings, ready.map((s) => s.start!), spec.convention, spec.couplings)).then((answer) => {
         if (!current || answer === null) return;
-        setFollowing(false);
-        setTraced(answer.ok ? { request, texts, numbers, results: answer.results, error: null } : { request, texts, numbers, results: [], error: answer.error });
+        // Drawing the new curves may take a while: as a transition React does it in slices,
+        // so typing elsewhere is never held up by a plot.
+        startTransition(() => {
+          setFollowing(false);
+          setTraced(answer.ok ? { request, texts, numbers, results: answer.results, error: null } : { request, texts, numbers, results: [], error: answer.error });
+        });
       });
     }, SETTLE_MS);
     return () => {
