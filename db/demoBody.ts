@@ -34,7 +34,8 @@ export const demoBody: readonly DemoStep[] = [
     paragraph:
       'We work in $d = 4 - \\varepsilon$ with the quartic coupling $g$ in minimal subtraction. The flow block below holds the two-loop beta function, the rate $t$ of the temperature-like variable (for chains, the distance of the step fugacity from its critical value) and the rate of the squared size, which scales like a squared length.',
   },
-  { display: '\\beta(g) = \\mu\\frac{dg}{d\\mu} = -\\varepsilon g + \\frac{n+8}{3}g^2 - \\frac{3n+14}{3}g^3, \\qquad \\frac{d\\ln t}{dl} = 2 - \\frac{n+2}{3}g + \\frac{5(n+2)}{18}g^2' },
+  { display: '\\beta(g) = \\mu\\frac{dg}{d\\mu} = -\\varepsilon g + \\frac{n+8}{3}g^2 - \\frac{3n+14}{3}g^3' },
+  { display: '\\frac{d\\ln t}{dl} = 2 - \\frac{n+2}{3}g + \\frac{5(n+2)}{18}g^2, \\qquad \\frac{d\\ln \\langle R^2 \\rangle}{dl} = 2' },
   {
     flow: {
       name: 'two-loop O(n) flow, chains at n = 0',

@@ -11,7 +11,7 @@ import { ClaimDatasetSection } from '@/components/datasets/attach';
 import { downloadText } from '@/components/plot';
 import { KIND_LABELS, claimFields, isClaimKind } from '@/flow/document/layout';
 import type { FieldError } from '@/flow/types';
-import { tightItem } from '../worker/fieldsLogic';
+import { tightItem } from '../worker/reading';
 import { useDerivationId } from '../derivationContext';
 import { liveChecksOf, type ClaimView, type ExportChoice, type LiveChecks } from './live';
 import { shownVerdict } from './verdictOf';

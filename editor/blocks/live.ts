@@ -7,8 +7,9 @@ import type { Node as ProseMirrorNode } from '@tiptap/pm/model';
 import type { BlockProblem, CheckGroup, DocNode } from '@/flow/document';
 import type { BlockPreviews, Preview } from '@/flow/document/preview';
 import type { ClaimFile, ClaimResult } from '@/flow/types';
-import { CheckClient, type CheckState } from '../worker/checkClient';
+import { CheckClient, mark, type CheckState } from '../worker/checkClient';
 import type { CheckItem, ClaimInfo, FieldAnswer, FieldRequest, FlowInfo, ImportAnswer, Reading, WorkerLike } from '../worker/protocol';
+import { readBlocks } from '../worker/reading';
 
 export type { CheckState };
 
@@ -79,8 +80,12 @@ export class LiveChecks {
   private fieldWorker: WorkerLike | null = null;
   private readonly createFieldWorker: () => WorkerLike;
   private seq = 0;
-  private inFlight: number | null = null;
   private waiting: (() => DocNode[]) | null = null;
+  /** Previews: the request at the field worker, the one waiting for it, the latest answer. */
+  private previewInFlight: number | null = null;
+  private previewWaiting: { seq: number; blocks: DocNode[] } | null = null;
+  private previewSeq = 0;
+  private previewsByStep: Record<string, BlockPreviews> = {};
   private timer: ReturnType<typeof setTimeout> | null = null;
   private readonly debounceMs: number;
   private reading: Reading | null = null;
@@ -101,6 +106,9 @@ export class LiveChecks {
     this.createFieldWorker = options.createFieldWorker ?? defaultFieldWorker;
     this.debounceMs = options.debounceMs ?? 150;
     this.checks = new CheckClient({ createWorker: options.createCheckWorker ?? defaultCheckWorker, onChange: () => this.rebuild() });
+    // Both workers load the solver (a few hundred kB): start them now, while the page opens.
+    this.checks.warm();
+    this.ensureFieldWorker();
   }
 
   // ----- the document -----------------------------------------------------------------------
@@ -117,15 +125,34 @@ export class LiveChecks {
 
   private flush(): void {
     this.timer = null;
-    if (this.inFlight !== null || !this.waiting) return;
+    if (!this.waiting) return;
     const blocks = this.waiting();
     this.waiting = null;
     const seq = ++this.seq;
-    this.inFlight = seq;
+    // The reading is cheap and needs no solver: done here, so checks start at once.
+    let reading: Reading;
+    try {
+      reading = readBlocks(seq, blocks);
+    } catch (error) {
+      this.failure = `The blocks could not be read: ${error instanceof Error ? error.message : String(error)}`;
+      this.rebuild();
+      return;
+    }
+    this.failure = null;
+    this.accept(reading);
+    this.previewWaiting = { seq, blocks };
+    this.requestPreviews();
+  }
+
+  private requestPreviews(): void {
+    if (this.previewInFlight !== null || !this.previewWaiting) return;
+    const { seq, blocks } = this.previewWaiting;
+    this.previewWaiting = null;
+    this.previewInFlight = seq;
     this.postToFields({ type: 'read', seq, blocks });
   }
 
-  private postToFields(request: FieldRequest): void {
+  private ensureFieldWorker(): WorkerLike {
     if (!this.fieldWorker) {
       const worker = this.createFieldWorker();
       worker.onmessage = (event) => {
@@ -136,24 +163,31 @@ export class LiveChecks {
       };
       this.fieldWorker = worker;
     }
-    this.fieldWorker.postMessage(request);
+    return this.fieldWorker;
+  }
+
+  private postToFields(request: FieldRequest): void {
+    this.ensureFieldWorker().postMessage(request);
   }
 
   private fieldWorkerDied(event: unknown): void {
     this.fieldWorker?.terminate();
     this.fieldWorker = null;
-    this.inFlight = null;
+    this.previewInFlight = null;
     this.fieldRestarts++;
     const reason = (event as { message?: unknown })?.message;
+    for (const resolve of this.imports.values()) resolve({ ok: false, errors: [{ field: 'file', message: 'the file could not be read: the field worker stopped; try again' }] });
+    this.imports.clear();
     if (this.fieldRestarts > 3) {
-      this.failure = `The blocks cannot be read here: the field worker stopped ${this.fieldRestarts} times (${typeof reason === 'string' ? reason : 'no reason given'}).`;
+      this.failure = `The field previews cannot be shown here: the field worker stopped ${this.fieldRestarts} times (${typeof reason === 'string' ? reason : 'no reason given'}).`;
       this.rebuild();
       return;
     }
-    for (const resolve of this.imports.values()) resolve({ ok: false, errors: [{ field: 'file', message: 'the file could not be read: the field worker stopped; try again' }] });
-    this.imports.clear();
-    // Read the document again on a fresh worker.
-    if (this.lastBlocks) this.documentChanged(this.lastBlocks, true);
+    // Preview the document again on a fresh worker.
+    if (this.lastBlocks) {
+      this.previewWaiting = { seq: ++this.seq, blocks: this.lastBlocks() };
+      this.requestPreviews();
+    }
   }
 
   private lastBlocks: (() => DocNode[]) | null = null;
@@ -164,21 +198,24 @@ export class LiveChecks {
       this.imports.delete(answer.seq);
       return;
     }
-    if (answer.seq === this.inFlight) this.inFlight = null;
+    if (answer.seq === this.previewInFlight) this.previewInFlight = null;
     if (answer.type === 'failed') {
-      this.imports.get(answer.seq)?.({ ok: false, errors: [{ field: 'file', message: answer.message }] });
-      this.imports.delete(answer.seq);
-      this.failure = `The blocks could not be read: ${answer.message}`;
-      this.rebuild();
-    } else if (!this.reading || answer.seq > this.reading.seq) {
+      const importing = this.imports.get(answer.seq);
+      if (importing) {
+        importing({ ok: false, errors: [{ field: 'file', message: answer.message }] });
+        this.imports.delete(answer.seq);
+      }
+    } else if (answer.seq > this.previewSeq) {
       this.fieldRestarts = 0;
-      this.failure = null;
-      this.accept(answer);
+      this.previewSeq = answer.seq;
+      this.previewsByStep = answer.previews;
+      this.rebuild();
     }
-    if (this.waiting && !this.timer) this.flush();
+    this.requestPreviews();
   }
 
   private accept(reading: Reading): void {
+    mark('marginalia:claims-read');
     this.reading = reading;
     this.itemByStep = new Map(reading.items.map((item) => [item.stepId, item]));
     // A tighter run asked for an earlier version of a claim is dropped once the claim changes.
@@ -203,11 +240,11 @@ export class LiveChecks {
   }
 
   previews(stepId: string): BlockPreviews {
-    return this.reading?.previews[stepId] ?? EMPTY_PREVIEWS;
+    return this.previewsByStep[stepId] ?? EMPTY_PREVIEWS;
   }
 
   preview(stepId: string, address: string): Preview | undefined {
-    return this.reading?.previews[stepId]?.[address];
+    return this.previewsByStep[stepId]?.[address];
   }
 
   problems(stepId: string): BlockProblem[] {
@@ -320,13 +357,15 @@ export class LiveChecks {
       byStep.set(info.stepId, view);
     }
     this.claimByStep = byStep;
+    const busy = this.checks.busy || this.timer !== null;
+    if (this.current.busy && !busy && reading) mark('marginalia:verdicts-settled');
     this.current = {
       version: this.current.version + 1,
       ready: reading !== null,
       flows,
       claims,
       evidenceFor: this.evidenceFor,
-      busy: this.checks.busy || this.inFlight !== null || this.timer !== null,
+      busy,
       failure: this.failure,
     };
     this.scheduleNotify();

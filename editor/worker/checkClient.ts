@@ -4,7 +4,7 @@
 // undo finds its old results again. A running claim that is no longer wanted (an edit superseded
 // it), that runs past its bound, or that the user cancels is stopped by ending the worker and
 // starting a fresh one; a worker that dies is restarted, and the claim it was checking says so.
-import { stoppedResult } from './checkLogic';
+import { stoppedResult } from './stopped';
 import type { CheckAnswer, CheckItem, WorkerLike } from './protocol';
 import type { ClaimResult } from '@/flow/types';
 
@@ -107,6 +107,11 @@ export class CheckClient {
     return { state: 'idle', result: null, since: null, note };
   }
 
+  /** Starts the worker ahead of the first check (it loads the solver). */
+  warm(): void {
+    if (!this.destroyed && !this.brokenReason) this.ensureWorker();
+  }
+
   /** True while any wanted claim waits for its result. */
   get busy(): boolean {
     return this.pending().length > 0;
@@ -171,6 +176,10 @@ export class CheckClient {
   }
 
   private receive(message: CheckAnswer): void {
+    if (message.type === 'ready') {
+      mark('marginalia:check-worker-ready');
+      return;
+    }
     if (message.type === 'started') {
       const item = this.extra.get(message.ticket) ?? this.wanted.get(message.ticket);
       this.running = { ticket: message.ticket, since: this.now(), item };
@@ -251,6 +260,11 @@ export class CheckClient {
     const claim = item.file.claims[0] as { id?: unknown } | undefined;
     return typeof claim?.id === 'string' ? claim.id : item.stepId;
   }
+}
+
+/** A performance mark for benchmarks and profiles (nothing when the platform has none). */
+export function mark(name: string): void {
+  if (typeof performance !== 'undefined' && typeof performance.mark === 'function') performance.mark(name);
 }
 
 function describeWorkerError(event: unknown): string {

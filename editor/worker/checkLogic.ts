@@ -5,6 +5,7 @@ import { checkClaims } from '@/flow';
 import { describeInDocument, type CheckGroup, type ClaimReading, type DocumentReading } from '@/flow/document';
 import type { ClaimResult } from '@/flow/types';
 import type { CheckItem } from './protocol';
+import { stoppedResult } from './stopped';
 
 export function runItem(item: CheckItem): ClaimResult {
   const claim = item.file.claims[0] as { id?: unknown };
@@ -27,23 +28,4 @@ function inDocumentWords(message: string, item: CheckItem): string {
   } as DocumentReading;
   const group = { key: '', flowStepId: null, file: item.file, claimStepIds: [item.stepId] } as CheckGroup;
   return describeInDocument(message, reading, group);
-}
-
-export function stoppedResult(id: string, kind: string, message: string, method = 'stopped'): ClaimResult {
-  return {
-    id,
-    kind,
-    status: 'inconclusive',
-    measured: null,
-    uncertainty: null,
-    expected: null,
-    tolerance: null,
-    message,
-    method,
-    settings: {},
-    stats: {},
-    ms: 0,
-    sanity: [],
-    evidence: {},
-  };
 }

@@ -1,8 +1,9 @@
 // Messages between the page and its two workers. Plain data only (structured clone).
 //
-// The field worker reads the document (flow/document.ts): every block's problems and field
-// previews, and one check item per claim that can be checked, with a hash of what it checks.
-// The check worker runs check items with flow/ one at a time and posts each result as it comes.
+// The page reads the document itself (reading.ts: every block's problems, one check item per claim
+// with a hash of what it checks). The field worker previews every field (mathjs) and reads claim
+// files for an import. The check worker runs check items with flow/ one at a time and posts each
+// result as it comes.
 import type { BlockProblem, CheckGroup, DocNode, FlowSymbols } from '@/flow/document';
 import type { BlockPreviews } from '@/flow/document/preview';
 import type { ClaimFile, ClaimKind, ClaimResult, FieldError } from '@/flow/types';
@@ -51,7 +52,6 @@ export interface Reading {
   seq: number;
   flows: FlowInfo[];
   claims: ClaimInfo[];
-  previews: Record<string, BlockPreviews>;
   /** Claim files per flow block (key: its stepId) and for claims without a flow (key "none"). */
   groups: CheckGroup[];
   /** One per claim that can be checked, in document order (ticket = the claim's hash). */
@@ -67,7 +67,7 @@ export type FieldRequest =
   | { type: 'import'; seq: number; text: string };
 
 export type FieldAnswer =
-  | ({ type: 'reading' } & Reading)
+  | { type: 'previews'; seq: number; previews: Record<string, BlockPreviews> }
   | { type: 'imported'; seq: number; answer: ImportAnswer }
   | { type: 'failed'; seq: number; message: string };
 

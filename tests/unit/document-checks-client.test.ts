@@ -8,7 +8,7 @@ import { afterEach, describe, expect, test } from 'vitest';
 import { claimBlockNode, flowBlockNode, type DocNode } from '@/flow/document';
 import { CheckClient } from '@/editor/worker/checkClient';
 import { runItem } from '@/editor/worker/checkLogic';
-import { importClaimFile, readBlocks, tightItem } from '@/editor/worker/fieldsLogic';
+import { importClaimFile, readBlocks, tightItem } from '@/editor/worker/reading';
 import type { CheckAnswer, CheckItem, CheckRequest, WorkerLike } from '@/editor/worker/protocol';
 
 interface Behaviour {

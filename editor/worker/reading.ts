@@ -1,7 +1,8 @@
-// What the field worker does, as plain functions (the worker only passes messages): read the
-// document's blocks, preview every field, and make one check item per claim that can be checked.
+// Reading the document's blocks for the live checks: each block's problems and one check item per
+// claim that can be checked (its claim and flow, hashed). Cheap and free of the solver's numerics
+// (no mathjs), so the page does it itself the moment the edits pause; the field previews, which
+// need mathjs, come from the field worker.
 import { claimFileToBlocks, problemResult, readDocument, type DocNode } from '@/flow/document';
-import { previewDocument } from '@/flow/document/preview';
 import { fingerprint } from './hash';
 import type { CheckItem, ClaimInfo, FlowInfo, ImportAnswer, Reading } from './protocol';
 
@@ -19,7 +20,6 @@ export function tightItem(item: CheckItem): CheckItem {
 
 export function readBlocks(seq: number, blocks: DocNode[]): Reading {
   const reading = readDocument(blocks);
-  const previews = previewDocument(blocks, reading);
   const bindings = new Map<string, string | null>();
   const notes = new Map<string, string>();
   for (const block of blocks) {
@@ -66,7 +66,7 @@ export function readBlocks(seq: number, blocks: DocNode[]): Reading {
     hash: hashes.get(claim.stepId) ?? null,
     invalid: claim.claim ? null : problemResult(claim),
   }));
-  return { seq, flows, claims, previews, groups: reading.groups, items };
+  return { seq, flows, claims, groups: reading.groups, items };
 }
 
 function textOf(node: DocNode): string {
