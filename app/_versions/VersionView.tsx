@@ -46,7 +46,11 @@ export function VersionView({ version, filesBase, eyebrow, children }: { version
       </dl>
       <LockedFacts version={version} filesBase={filesBase} />
       {children}
-      <section aria-label="Text" className="mt-6">
+      <p className="mt-6 text-sm text-ink-soft">
+        The verdicts in the text are checked again by your browser as you read; the {version.locked ? 'check report' : 'list'} below holds the server’s verdicts
+        stored with this version.
+      </p>
+      <section aria-label="Text" className="mt-2">
         <SnapshotDocument snapshotUrl={`${filesBase}/snapshot`} label={`${version.derivation.title}, version ${version.number}`} />
       </section>
       <section className="mt-8">
