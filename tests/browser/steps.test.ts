@@ -292,6 +292,39 @@ describe('live verdicts', () => {
   });
 });
 
+describe('checks that run long or cannot run', () => {
+  test('a long check says it is running and can be cancelled; left alone it stops at its time bound and says so', async () => {
+    const page = await signedInPage(demo.cookies.author);
+    await openDerivation(page, await newDerivation('A slow integral'));
+    await page.locator('.ProseMirror').click();
+    // sin(1/x)/x oscillates without end near 0: asked for 1e-15, the quadrature never settles.
+    const slow = { id: 'slow', kind: 'integral', integrand: 'sin(1/x)/x', variable: 'x', from: 0, to: 1, value: 0.6, settings: { maxIntervals: 10_000_000, relativeTolerance: 1e-15, absoluteTolerance: 1e-300 } };
+    const deep = { id: 'deep', kind: 'identity', lhs: `${'('.repeat(600)}x${')'.repeat(600)}`, rhs: 'x' };
+    await importFile(page, { flow: { couplings: [], parameters: {}, beta: {} }, claims: [slow, deep] });
+    const block = claimBlock(page, 1);
+    await waitForVerdict(block, 'checking');
+    const cancel = block.getByRole('button', { name: 'Cancel' });
+    await cancel.waitFor();
+    await cancel.click();
+    await waitForVerdict(block, 'cancelled');
+    const again = block.getByRole('button', { name: 'Check again' });
+    await again.waitFor();
+    await new Promise((resolve) => setTimeout(resolve, 2500));
+    expect(await verdictOf(block)).toBe('cancelled');
+
+    await again.click();
+    await waitForVerdict(block, 'inconclusive');
+    expect(await block.locator('.block-verdict-message').textContent()).toBe('stopped at the time bound of 2000 ms before reaching a verdict');
+    await block.getByRole('button', { name: 'Check again' }).waitFor();
+
+    // Nothing typed can stop the checks: an expression nested 600 deep is refused with a reason.
+    const nested = claimBlock(page, 2);
+    await waitForVerdict(nested, 'invalid');
+    expect(await nested.locator('.block-verdict-message').textContent()).toContain('nested too deeply');
+    await field(nested, 'lhs').locator('.block-field-message', { hasText: 'nested too deeply' }).waitFor();
+  });
+});
+
 describe('the check summary and the claim file', () => {
   test('choosing a claim in the summary brings it into view', async () => {
     const page = await signedInPage(demo.cookies.reader);
