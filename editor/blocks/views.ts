@@ -61,7 +61,7 @@ interface FieldContext {
   hint: string;
   required: boolean;
   prose: boolean;
-  /** The field is a name or a list of names. */
+  /** The field is a name, a list of names or a number: a preview only when it says more than the text. */
   plainName: boolean;
 }
 
@@ -98,7 +98,7 @@ function fieldContext(view: EditorView, getPos: GetPos, node: ProseMirrorNode): 
   if (block.type.name === 'flowBlock') spec = FLOW_FIELDS.find((f) => f.key === key);
   else if (block.type.name === 'claimBlock' && isClaimKind(block.attrs.kind)) spec = claimFields(block.attrs.kind).find((f) => f.key === key);
   if (!spec) return { stepId, address: key, label: key || 'Field', hint: 'not a field of this block: its text is kept but not checked', required: false, prose: true, plainName: false };
-  return { stepId, address: key, label: spec.label, hint: spec.hint, required: spec.required, prose: spec.syntax === 'text', plainName: spec.syntax === 'name' || spec.syntax === 'names' };
+  return { stepId, address: key, label: spec.label, hint: spec.hint, required: spec.required, prose: spec.syntax === 'text', plainName: ['name', 'names', 'integer', 'number'].includes(spec.syntax) };
 }
 
 class FieldView implements NodeView {
