@@ -24,6 +24,19 @@ export function stepElement(root: HTMLElement, stepId: string): HTMLElement | nu
   return null;
 }
 
+/** The outermost element of every step in the editor, by step id, in one pass over the text. */
+export function stepElements(root: HTMLElement): Map<string, HTMLElement> {
+  const text = root.querySelector('.ProseMirror') ?? root;
+  const found = new Map<string, HTMLElement>();
+  for (const element of text.querySelectorAll<HTMLElement>('[data-step-id]')) {
+    const id = element.getAttribute('data-step-id');
+    if (!id || found.has(id)) continue;
+    const outer = element.parentElement?.closest('[data-step-id]');
+    if (!outer || !text.contains(outer)) found.set(id, element);
+  }
+  return found;
+}
+
 /** The step an event happened in (its outermost element's id), or null. */
 export function stepIdAt(root: HTMLElement, target: EventTarget | null): string | null {
   if (!(target instanceof Element)) return null;
@@ -120,9 +133,10 @@ export function StepMargin({
     if (!main || !margin) return;
     const origin = margin.getBoundingClientRect().top;
     const next: Record<string, Box> = {};
+    const elements = stepElements(main);
     for (const id of stepIds.split(' ')) {
       if (!id) continue;
-      const element = stepElement(main, id);
+      const element = elements.get(id);
       if (!element) continue;
       const rect = element.getBoundingClientRect();
       next[id] = { top: Math.round(rect.top - origin), height: Math.round(rect.height) };
