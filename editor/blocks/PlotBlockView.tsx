@@ -328,7 +328,10 @@ export function PlotBlockView(props: NodeViewProps) {
             ))}
           </ul>
         )}
-        {following && <p className="text-sm text-ink-faint" role="status">Following the flow…</p>}
+        {/* Always one line high, so the text below does not jump while the plot follows an edit. */}
+        <p className="h-5 text-sm text-ink-faint" role="status">
+          {following ? 'Following the flow…' : ''}
+        </p>
         {picture && (
           <PlotFrame title={title} x={picture.x} y={picture.y} series={picture.series} markers={picture.markers} notes={picture.notes} height={320} />
         )}
