@@ -32,7 +32,7 @@ beforeAll(async () => {
   browser = await launchBrowser();
   page = await (await browser.newContext({ viewport: { width: 1000, height: 1400 }, acceptDownloads: true })).newPage();
   await page.goto(vite.resolvedUrls!.local[0]!);
-  await plot('plot-plane').locator('[data-testid=plot-frame] svg').waitFor({ timeout: 90_000 });
+  await plot('plot-plane').locator('[data-testid=plot-frame] svg.recharts-surface').waitFor({ timeout: 90_000 });
 });
 
 afterAll(async () => {
@@ -133,7 +133,7 @@ describe('a trajectory plot against RG time', () => {
     const gStar = Number(/attractive fixed point — at g = ([\d.]+)/.exec(key)?.[1]);
     // 3 eps/8 + 9*14/512 eps^2 = 0.039961 at eps = 0.1; the eps^3 term is beyond it (order 1e-4).
     expect(Math.abs(gStar - 0.039961)).toBeLessThan(1e-3);
-    const drawing = (await plot('plot-time').locator('[data-plot-area] svg').textContent()) ?? '';
+    const drawing = (await plot('plot-time').locator('[data-plot-area] svg.recharts-surface').textContent()) ?? '';
     expect(drawing).toContain('RG time l');
     expect(drawing).toContain('10⁻²');
   });
