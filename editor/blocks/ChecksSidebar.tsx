@@ -228,15 +228,17 @@ export function ChecksSidebar({ editor, title, canEdit }: { editor: Editor; titl
   const open = snapshot.evidenceFor ? snapshot.claims.find((c) => c.info.stepId === snapshot.evidenceFor) : undefined;
   const derivationId = useDerivationId();
 
-  let evidence = null;
-  if (open) {
+  // The open claim's view object changes only when what it shows changes: the plots redraw then only.
+  const openDataset = open ? claimDataset(editor, open.info.stepId) : null;
+  const evidence = useMemo(() => {
+    if (!open) return null;
     const verdict = shownVerdict(open);
     const run: EvidenceRun = { state: verdict.state, result: verdict.result, stale: verdict.stale, message: verdict.message };
     const tight: EvidenceRun | null = open.tight
       ? { state: open.tight.state === 'done' && open.tight.result ? open.tight.result.status : open.tight.state === 'running' || open.tight.state === 'queued' ? 'checking' : open.tight.state === 'cancelled' ? 'cancelled' : 'unchecked', result: open.tight.result }
       : null;
     const stepId = open.info.stepId;
-    evidence = (
+    return (
       <EvidencePanel
         key={stepId}
         title={`Claim ${open.info.number} · ${open.info.kind ? KIND_LABELS[open.info.kind] : 'unknown kind'}`}
@@ -266,7 +268,9 @@ export function ChecksSidebar({ editor, title, canEdit }: { editor: Editor; titl
         }
       />
     );
-  }
+    // openDataset: the claim's dataset is an attribute of its block, not part of its verdict.
+    // eslint-disable-next-line react-hooks/exhaustive-deps
+  }, [open, editor, live, derivationId, canEdit, openDataset]);
 
   return (
     <>

@@ -66,6 +66,9 @@ export interface LiveOptions {
 }
 
 const EMPTY_PREVIEWS: BlockPreviews = {};
+/** Least time between two redraws of the blocks while results stream in (ms). */
+const NOTIFY_GAP_MS = 90;
+const now = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
 
 function defaultFieldWorker(): WorkerLike {
   return new Worker(new URL('../worker/fields.worker.ts', import.meta.url), { type: 'module', name: 'marginalia-fields' }) as unknown as WorkerLike;
@@ -86,6 +89,8 @@ export class LiveChecks {
   private previewWaiting: { seq: number; blocks: DocNode[] } | null = null;
   private previewSeq = 0;
   private previewsByStep: Record<string, BlockPreviews> = {};
+  /** previewsByStep per step as text, made once per answer (to tell which blocks changed). */
+  private readonly previewKeys = new Map<string, string>();
   private timer: ReturnType<typeof setTimeout> | null = null;
   private readonly debounceMs: number;
   private reading: Reading | null = null;
@@ -99,7 +104,11 @@ export class LiveChecks {
   private fieldRestarts = 0;
   private current: LiveSnapshot = { version: 0, ready: false, flows: [], claims: [], evidenceFor: null, busy: false, failure: null };
   private readonly listeners = new Set<() => void>();
+  private readonly stepListeners = new Map<string, Set<() => void>>();
+  private stepKeys = new Map<string, string>();
+  private readonly changedSteps = new Set<string>();
   private notifyScheduled = false;
+  private lastNotify = -Infinity;
   private destroyed = false;
 
   constructor(options: LiveOptions = {}) {
@@ -209,6 +218,7 @@ export class LiveChecks {
       this.fieldRestarts = 0;
       this.previewSeq = answer.seq;
       this.previewsByStep = answer.previews;
+      this.previewKeys.clear();
       this.rebuild();
     }
     this.requestPreviews();
@@ -234,9 +244,24 @@ export class LiveChecks {
     return this.current;
   }
 
+  /** Called after any change (the panels). */
   subscribe(listener: () => void): () => void {
     this.listeners.add(listener);
     return () => this.listeners.delete(listener);
+  }
+
+  /** Called when what the block of this step shows changed: its verdict, problems, previews, number. */
+  subscribeStep(stepId: string, listener: () => void): () => void {
+    let set = this.stepListeners.get(stepId);
+    if (!set) {
+      set = new Set();
+      this.stepListeners.set(stepId, set);
+    }
+    set.add(listener);
+    return () => {
+      set.delete(listener);
+      if (set.size === 0) this.stepListeners.delete(stepId);
+    };
   }
 
   previews(stepId: string): BlockPreviews {
@@ -335,6 +360,7 @@ export class LiveChecks {
     this.fieldWorker = null;
     this.checks.destroy();
     this.listeners.clear();
+    this.stepListeners.clear();
   }
 
   /** Remembers how to get the blocks again (a restarted field worker reads them afresh). */
@@ -349,18 +375,47 @@ export class LiveChecks {
     const reading = this.reading;
     const flows = reading?.flows ?? [];
     const flowNumber = new Map(flows.map((f) => [f.stepId, f.number]));
+    // The binding choices of every claim block follow the list of flow blocks.
+    const flowsKey = JSON.stringify(flows.map((f) => [f.stepId, f.number, f.name]));
+    const keys = new Map<string, string>();
     const claims: ClaimView[] = [];
     const byStep = new Map<string, ClaimView>();
+    const boundCount = new Map<string, number>();
     for (const info of reading?.claims ?? []) {
-      const view = this.claimView(info, info.flowStepId ? (flowNumber.get(info.flowStepId) ?? null) : null);
+      let view = this.claimView(info, info.flowStepId ? (flowNumber.get(info.flowStepId) ?? null) : null);
+      const key = claimKey(view, flowsKey, this.previewKey(info.stepId));
+      keys.set(info.stepId, key);
+      // An unchanged claim keeps its view object, so panels can tell what changed.
+      const before = this.claimByStep.get(info.stepId);
+      if (before && this.stepKeys.get(info.stepId) === key) view = before;
       claims.push(view);
       byStep.set(info.stepId, view);
+      if (info.flowStepId) boundCount.set(info.flowStepId, (boundCount.get(info.flowStepId) ?? 0) + 1);
     }
+    for (const flow of flows) {
+      keys.set(flow.stepId, JSON.stringify([flow.number, flow.name, flow.problems, boundCount.get(flow.stepId) ?? 0, this.previewKey(flow.stepId)]));
+    }
+    let changed = false;
+    for (const [stepId, key] of keys) {
+      if (this.stepKeys.get(stepId) !== key) {
+        this.changedSteps.add(stepId);
+        changed = true;
+      }
+    }
+    for (const stepId of this.stepKeys.keys()) {
+      if (!keys.has(stepId)) {
+        this.changedSteps.add(stepId);
+        changed = true;
+      }
+    }
+    this.stepKeys = keys;
     this.claimByStep = byStep;
     const busy = this.checks.busy || this.timer !== null;
     if (this.current.busy && !busy && reading) mark('marginalia:verdicts-settled');
+    const previous = this.current;
+    if (!changed && previous.ready === (reading !== null) && previous.busy === busy && previous.evidenceFor === this.evidenceFor && previous.failure === this.failure && previous.flows === flows) return;
     this.current = {
-      version: this.current.version + 1,
+      version: previous.version + 1,
       ready: reading !== null,
       flows,
       claims,
@@ -369,6 +424,16 @@ export class LiveChecks {
       failure: this.failure,
     };
     this.scheduleNotify();
+  }
+
+  private previewKey(stepId: string): string {
+    let key = this.previewKeys.get(stepId);
+    if (key === undefined) {
+      const previews = this.previewsByStep[stepId];
+      key = previews ? JSON.stringify(previews) : '';
+      this.previewKeys.set(stepId, key);
+    }
+    return key;
   }
 
   private claimView(info: ClaimInfo, flowNumber: number | null): ClaimView {
@@ -385,14 +450,59 @@ export class LiveChecks {
   }
 
   private scheduleNotify(): void {
-    // Several changes in one turn (a reading, then results known from the cache) notify once.
+    // Changes arriving within one frame (a reading, results known from the cache, several quick
+    // checks) are shown together: one redraw of the page, not one per result.
     if (this.notifyScheduled) return;
     this.notifyScheduled = true;
-    queueMicrotask(() => {
+    let done = false;
+    const run = () => {
+      if (done || this.destroyed) return;
+      done = true;
       this.notifyScheduled = false;
+      const steps = [...this.changedSteps];
+      this.changedSteps.clear();
+      for (const stepId of steps) for (const listener of [...(this.stepListeners.get(stepId) ?? [])]) listener();
       for (const listener of [...this.listeners]) listener();
-    });
+    };
+    // Results streaming in are shown at most every NOTIFY_GAP_MS, so a burst of checks redraws
+    // the page a few times rather than once per claim.
+    const wait = Math.max(0, this.lastNotify + NOTIFY_GAP_MS - now());
+    const frame = () => {
+      this.lastNotify = now();
+      run();
+    };
+    setTimeout(() => {
+      // A hidden page gets no animation frames: the second timer shows the changes there.
+      if (typeof requestAnimationFrame === 'function') requestAnimationFrame(frame);
+      setTimeout(frame, 50);
+    }, wait);
   }
+}
+
+/** What a claim block shows, as one string: equal strings, nothing to redraw. */
+function claimKey(view: ClaimView, flowsKey: string, previewKey: string): string {
+  const result = (r: ClaimResult | null | undefined) => (r ? [r.status, r.message, r.ms] : null);
+  const { info } = view;
+  return JSON.stringify([
+    info.number,
+    info.kind,
+    info.id,
+    info.name,
+    info.note,
+    info.binding,
+    info.flowStepId,
+    info.hash,
+    info.problems,
+    view.flowNumber,
+    view.state,
+    result(view.result),
+    result(view.previous),
+    view.since,
+    view.note,
+    view.tight ? [view.tight.state, result(view.tight.result), view.tight.since] : null,
+    flowsKey,
+    previewKey,
+  ]);
 }
 
 // ---------------------------------------------------------------------------------------------

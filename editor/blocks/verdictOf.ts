@@ -18,12 +18,8 @@ export function shownVerdict(view: ClaimView | undefined): ShownVerdict {
   if (view.state === 'done' && view.result) return { state: view.result.status, result: view.result, stale: false, message: view.result.message };
   const previous = view.previous;
   const state: VerdictState = view.state === 'running' ? 'checking' : view.state === 'queued' ? (previous ? 'checking' : 'queued') : view.state === 'cancelled' ? 'cancelled' : 'unchecked';
-  const message =
-    view.state === 'cancelled'
-      ? 'The check was cancelled before it reached a verdict. Check it again when you are ready.'
-      : previous
-        ? `Checking again. Before this edit: ${previous.status === 'invalid' ? 'invalid input' : previous.status}: ${previous.message}`
-        : '';
+  // While a claim is checked again its last message stays (faded): the block keeps its height.
+  const message = view.state === 'cancelled' ? 'The check was cancelled before it reached a verdict. Check it again when you are ready.' : (previous?.message ?? '');
   return { state, result: previous, stale: previous !== null, message };
 }
 

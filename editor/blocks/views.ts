@@ -50,6 +50,29 @@ function chromeEvent(contentDOM: HTMLElement, event: Event): boolean {
   return target instanceof globalThis.Node && !contentDOM.contains(target) && (target as Element).closest?.('.block-chrome') !== null;
 }
 
+/** Follows one step's changes in the live state; the step can change (an id given late). */
+class StepFollower {
+  private stepId: string | null = null;
+  private stop: (() => void) | null = null;
+
+  constructor(
+    private readonly live: LiveChecks,
+    private readonly onChange: () => void,
+  ) {}
+
+  follow(stepId: string): void {
+    if (stepId === this.stepId) return;
+    this.stop?.();
+    this.stepId = stepId;
+    this.stop = stepId ? this.live.subscribeStep(stepId, this.onChange) : null;
+  }
+
+  end(): void {
+    this.stop?.();
+    this.stop = null;
+  }
+}
+
 // ---------------------------------------------------------------------------------------------
 // Fields
 
@@ -107,7 +130,7 @@ class FieldView implements NodeView {
   private readonly labelElement: HTMLElement;
   private readonly previewElement: HTMLElement;
   private readonly live: LiveChecks;
-  private readonly unsubscribe: () => void;
+  private readonly follower: StepFollower;
   private context: FieldContext | null = null;
   private shown = '';
 
@@ -126,7 +149,7 @@ class FieldView implements NodeView {
     this.previewElement = element('div', 'block-field-preview block-chrome');
     this.previewElement.contentEditable = 'false';
     this.dom.append(this.labelElement, this.contentDOM, this.previewElement);
-    this.unsubscribe = this.live.subscribe(() => this.refreshPreview());
+    this.follower = new StepFollower(this.live, () => this.refreshPreview());
     this.refresh();
   }
 
@@ -140,6 +163,7 @@ class FieldView implements NodeView {
   private refresh(): void {
     const context = fieldContext(this.view, this.getPos, this.node);
     this.context = context;
+    this.follower.follow(context?.stepId ?? '');
     const label = context?.label ?? '';
     if (this.labelElement.textContent !== label + (context?.required ? ' *' : '')) {
       this.labelElement.textContent = label;
@@ -195,7 +219,7 @@ class FieldView implements NodeView {
   }
 
   destroy(): void {
-    this.unsubscribe();
+    this.follower.end();
     cancelTypeset(this.previewElement);
   }
 }
@@ -276,7 +300,7 @@ class FlowBlockView implements NodeView {
   private readonly title: HTMLElement;
   private readonly summary: HTMLElement;
   private readonly live: LiveChecks;
-  private readonly unsubscribe: () => void;
+  private readonly follower: StepFollower;
   private shown = '';
 
   constructor(
@@ -296,7 +320,7 @@ class FlowBlockView implements NodeView {
     header.append(this.title, this.summary, tools);
     this.contentDOM = element('div', 'block-body');
     this.dom.append(header, this.contentDOM);
-    this.unsubscribe = this.live.subscribe(() => this.refresh());
+    this.follower = new StepFollower(this.live, () => this.refresh());
     this.refresh();
   }
 
@@ -307,6 +331,7 @@ class FlowBlockView implements NodeView {
   private refresh(): void {
     const stepId = this.stepId;
     if (stepId) this.dom.dataset.stepId = stepId;
+    this.follower.follow(stepId);
     const flow = stepId ? this.live.flow(stepId) : undefined;
     const claims = this.live.snapshot().claims.filter((c) => c.info.flowStepId === stepId && stepId !== '');
     const title = flow ? `Flow block ${flow.number}${flow.name ? `: ${flow.name}` : ''}` : 'Flow block';
@@ -347,7 +372,7 @@ class FlowBlockView implements NodeView {
   }
 
   destroy(): void {
-    this.unsubscribe();
+    this.follower.end();
   }
 }
 
@@ -370,7 +395,7 @@ class ClaimBlockView implements NodeView {
   private readonly againButton: HTMLButtonElement;
   private readonly evidenceButton: HTMLButtonElement;
   private readonly live: LiveChecks;
-  private readonly unsubscribe: () => void;
+  private readonly follower: StepFollower;
   private cancelTimer: ReturnType<typeof setTimeout> | null = null;
   private shown = '';
   private shownFlows = '';
@@ -405,7 +430,7 @@ class ClaimBlockView implements NodeView {
     this.noteLine.contentEditable = 'false';
     this.contentDOM = element('div', 'block-body');
     this.dom.append(header, this.verdictLine, this.noteLine, this.contentDOM);
-    this.unsubscribe = this.live.subscribe(() => this.refresh());
+    this.follower = new StepFollower(this.live, () => this.refresh());
     this.refresh();
   }
 
@@ -416,6 +441,7 @@ class ClaimBlockView implements NodeView {
   private refresh(): void {
     const stepId = this.stepId;
     if (stepId) this.dom.dataset.stepId = stepId;
+    this.follower.follow(stepId);
     const kind = isClaimKind(this.node.attrs.kind) ? this.node.attrs.kind : null;
     const claim = stepId ? this.live.claim(stepId) : undefined;
     const verdict = shownVerdict(claim);
@@ -431,13 +457,18 @@ class ClaimBlockView implements NodeView {
       }, CANCEL_AFTER_MS - (performance.now() - since) + 10);
     }
     const stopped = verdict.result?.method === 'stopped' || claim?.state === 'cancelled';
-    const key = [title, verdict.state, verdict.stale, verdict.message, claim?.note ?? '', longRunning, stopped, claim?.state ?? ''].join('|');
+    // Which input the block holds and which input its verdict is for (equal once it is checked).
+    const input = claim?.info.hash ?? 'as written';
+    const settled = claim !== undefined && (claim.state === 'done' || claim.state === 'invalid');
+    const key = [title, verdict.state, verdict.stale, verdict.message, claim?.note ?? '', longRunning, stopped, claim?.state ?? '', input, settled].join('|');
     this.refreshFlows(claim?.flowNumber ?? null);
     if (key === this.shown) return;
     this.shown = key;
     this.title.textContent = title;
     this.dom.setAttribute('aria-label', title);
     this.dom.dataset.verdict = verdict.state;
+    this.dom.dataset.input = input;
+    this.dom.dataset.verdictInput = settled ? input : '';
     this.dom.classList.toggle('is-stale', verdict.stale);
     const badge = verdictBadgeElement(verdict.state);
     this.badgeSlot.replaceChildren(badge);
@@ -502,7 +533,7 @@ class ClaimBlockView implements NodeView {
   }
 
   destroy(): void {
-    this.unsubscribe();
+    this.follower.end();
     if (this.cancelTimer) clearTimeout(this.cancelTimer);
   }
 }

@@ -130,7 +130,7 @@ async function keystrokes(browser: Browser, server: StartedServer, demo: DemoSes
     for (const id of ids) {
       const block = document.querySelector(`[data-step-id="${id}"]`) as HTMLElement;
       w.__verdicts[id] = [];
-      new MutationObserver(() => w.__verdicts[id]!.push({ at: performance.now(), state: block.dataset.verdict ?? '' })).observe(block, { attributes: true, attributeFilter: ['data-verdict'] });
+      new MutationObserver(() => w.__verdicts[id]!.push({ at: performance.now(), state: block.dataset.verdict ?? '' })).observe(block, { attributes: true, attributeFilter: ['data-verdict', 'data-verdict-input'] });
     }
   }, grown.dependentClaims);
 
@@ -156,8 +156,10 @@ async function keystrokes(browser: Browser, server: StartedServer, demo: DemoSes
         let last = 0;
         for (const id of ids) {
           const changes = w.__verdicts[id]!;
-          const current = (document.querySelector(`[data-step-id="${id}"]`) as HTMLElement).dataset.verdict ?? '';
-          if (!changes.some((c) => !final.includes(c.state)) || !final.includes(current)) return null;
+          const block = document.querySelector(`[data-step-id="${id}"]`) as HTMLElement;
+          // Checked: a final verdict, for the input the block holds now (data-verdict-input).
+          const checked = final.includes(block.dataset.verdict ?? '') && block.dataset.verdictInput === block.dataset.input;
+          if (changes.length === 0 || !checked) return null;
           last = Math.max(last, changes.at(-1)!.at);
         }
         return last;
