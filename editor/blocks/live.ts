@@ -74,8 +74,18 @@ function defaultFieldWorker(): WorkerLike {
   return new Worker(new URL('../worker/fields.worker.ts', import.meta.url), { type: 'module', name: 'marginalia-fields' }) as unknown as WorkerLike;
 }
 
-function defaultCheckWorker(): WorkerLike {
+function newCheckWorker(): WorkerLike {
   return new Worker(new URL('../worker/check.worker.ts', import.meta.url), { type: 'module', name: 'marginalia-checks' }) as unknown as WorkerLike;
+}
+
+// The check worker takes a moment to load the solver: the first one starts with this module,
+// before any editor exists, and the first editor's checks take it over.
+let early: WorkerLike | null = typeof window !== 'undefined' && typeof Worker !== 'undefined' ? newCheckWorker() : null;
+
+function defaultCheckWorker(): WorkerLike {
+  const worker = early ?? newCheckWorker();
+  early = null;
+  return worker;
 }
 
 export class LiveChecks {
@@ -466,7 +476,8 @@ export class LiveChecks {
     };
     // Results streaming in are shown at most every NOTIFY_GAP_MS, so a burst of checks redraws
     // the page a few times rather than once per claim.
-    const wait = Math.max(0, this.lastNotify + NOTIFY_GAP_MS - now());
+    // The last result of a burst is shown at once.
+    const wait = this.current.busy ? Math.max(0, this.lastNotify + NOTIFY_GAP_MS - now()) : 0;
     const frame = () => {
       this.lastNotify = now();
       run();
