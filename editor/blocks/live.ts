@@ -80,7 +80,14 @@ function newCheckWorker(): WorkerLike {
 
 // The check worker takes a moment to load the solver: the first one starts with this module,
 // before any editor exists, and the first editor's checks take it over.
-let early: WorkerLike | null = typeof window !== 'undefined' && typeof Worker !== 'undefined' ? newCheckWorker() : null;
+let early: WorkerLike | null = null;
+if (typeof window !== 'undefined' && typeof Worker !== 'undefined') {
+  try {
+    early = newCheckWorker();
+  } catch {
+    early = null; // the first editor tries again, and says so if it cannot
+  }
+}
 
 function defaultCheckWorker(): WorkerLike {
   const worker = early ?? newCheckWorker();
@@ -171,9 +178,15 @@ export class LiveChecks {
     this.postToFields({ type: 'read', seq, blocks });
   }
 
-  private ensureFieldWorker(): WorkerLike {
+  private ensureFieldWorker(): WorkerLike | null {
     if (!this.fieldWorker) {
-      const worker = this.createFieldWorker();
+      let worker: WorkerLike;
+      try {
+        worker = this.createFieldWorker();
+      } catch (error) {
+        this.failure = `The field previews cannot be shown here: the field worker could not start (${error instanceof Error ? error.message : String(error)}).`;
+        return null;
+      }
       worker.onmessage = (event) => {
         if (this.fieldWorker === worker) this.receiveFields(event.data as FieldAnswer);
       };
@@ -186,7 +199,17 @@ export class LiveChecks {
   }
 
   private postToFields(request: FieldRequest): void {
-    this.ensureFieldWorker().postMessage(request);
+    const worker = this.ensureFieldWorker();
+    if (worker) {
+      worker.postMessage(request);
+      return;
+    }
+    if (request.type === 'import') {
+      this.imports.get(request.seq)?.({ ok: false, errors: [{ field: 'file', message: 'the file cannot be read here: the field worker could not start' }] });
+      this.imports.delete(request.seq);
+    }
+    this.previewInFlight = null;
+    this.rebuild();
   }
 
   private fieldWorkerDied(event: unknown): void {

@@ -155,14 +155,22 @@ export class CheckClient {
       this.graceTimer = null;
     }
     if (pending.length > 0 || this.worker) {
-      this.ensureWorker().postMessage({ type: 'run', items: pending.filter((item) => item.ticket !== running?.ticket) });
+      const worker = this.ensureWorker();
+      if (!worker) return this.sync();
+      worker.postMessage({ type: 'run', items: pending.filter((item) => item.ticket !== running?.ticket) });
     }
     this.options.onChange();
   }
 
-  private ensureWorker(): WorkerLike {
+  private ensureWorker(): WorkerLike | null {
     if (this.worker) return this.worker;
-    const worker = this.options.createWorker();
+    let worker: WorkerLike;
+    try {
+      worker = this.options.createWorker();
+    } catch (error) {
+      this.brokenReason = `the checks cannot run here: the check worker could not start (${error instanceof Error ? error.message : String(error)})`;
+      return null;
+    }
     worker.onmessage = (event) => {
       if (this.worker === worker) this.receive(event.data as CheckAnswer);
     };

@@ -249,3 +249,19 @@ describe('importing a claim file', () => {
     if (!answer.ok) expect(answer.errors.map((e) => e.field)).toContain('claims[0].tolerence');
   });
 });
+
+test('where no check worker can start, every claim says the checks cannot run here, and nothing throws', () => {
+  const client = new CheckClient({
+    createWorker: () => {
+      throw new Error('Worker is not defined');
+    },
+    onChange: () => undefined,
+  });
+  clients.push(client);
+  const item = itemsOf([flow(twoLoop), fixedPoint])[0]!;
+  client.warm();
+  client.want([item]);
+  const status = client.status(item.ticket);
+  expect(status.result?.status).toBe('inconclusive');
+  expect(status.result?.message).toBe('the checks cannot run here: the check worker could not start (Worker is not defined)');
+});
