@@ -77,9 +77,11 @@ describe('reading a group', () => {
   test('the derivations table carries title, authors, claim counts, last edit and locked versions', async () => {
     const row = (await list(demo.as.reader, demo.groupId)).find((r) => r.title === demoDerivationTitle)!;
     expect(row.authors.map((a) => a.name)).toEqual([demoAccount('lead').name, demoAccount('author').name]);
-    expect(row.claimsHolding).toBe(0);
-    expect(row.claimsFailing).toBe(0);
-    expect(row.lockedVersions).toBe(0);
+    // The demo derivation's body (db/demoBody.ts): five claims hold, one fails on purpose; the demo
+    // locks version 1 of it at start-up.
+    expect(row.claimsHolding).toBe(5);
+    expect(row.claimsFailing).toBe(1);
+    expect(row.lockedVersions).toBe(1);
     expect(Number.isNaN(Date.parse(row.updatedAt))).toBe(false);
   });
 
