@@ -306,7 +306,14 @@ export function ChecksSidebar({ editor, title, canEdit }: { editor: Editor; titl
 function EvidenceDrawer({ children, onClose }: { children: ReactNode; onClose: () => void }) {
   const box = useRef<HTMLDivElement | null>(null);
   useEffect(() => {
+    // Focus moves into the evidence and back to where it came from (the claim's Evidence button) on close.
+    const from = document.activeElement instanceof HTMLElement ? document.activeElement : null;
     box.current?.focus({ preventScroll: true });
+    return () => {
+      if (from?.isConnected) from.focus({ preventScroll: true });
+    };
+  }, []);
+  useEffect(() => {
     const onKey = (event: KeyboardEvent) => {
       if (event.key === 'Escape') onClose();
     };
