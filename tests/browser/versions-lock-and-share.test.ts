@@ -161,7 +161,7 @@ describe('a reader follows the shared locked version', () => {
   test('hovering along the trajectory plot reads the RG time and the coupling', async () => {
     const plot = page.locator('[data-step-id="plot-against-time"] [data-trajectory-plot], [data-trajectory-plot][data-step-id="plot-against-time"]').first();
     const area = plot.locator('[data-plot-area]');
-    await area.locator('svg').waitFor({ timeout: 60_000 });
+    await area.locator('svg.recharts-surface').waitFor({ timeout: 60_000 });
     await area.scrollIntoViewIfNeeded();
     // Two places along the drawn curve (the longest path of the drawing), early and late in RG time.
     const along = await area.evaluate((element) => {
