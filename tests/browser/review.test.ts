@@ -109,7 +109,7 @@ test('a reviewer opens a claim, sees the evidence, runs it again, remarks on the
   expect(await card.getByRole('button', { name: 'Sign off this step' }).isVisible()).toBe(true);
 
   // The author's mail links to the remark, which opens at its step.
-  const mail = await waitForMail(server.url, { to: demoAccount('author').email, subject: /remark on your step/, notIn: beforeMail });
+  const mail = await waitForMail(server.url, { to: demoAccount('author').email, subject: /remark on your step in "Review: one-loop flow below d = 4"/, notIn: beforeMail });
   const authorPage = await signedInPage(demo.cookies.author);
   await authorPage.goto(linkIn(mail, `/derivations/${id}`));
   const authorCard = authorPage.getByRole('region', { name: 'Review of step 3' });

@@ -116,7 +116,8 @@ describe('remarks on steps', () => {
     expect(posted.body.entries).toHaveLength(1);
     expect(posted.body.entries[0]).toMatchObject({ kind: 'remark', by: { name: demoAccount('reviewer').name } });
 
-    const mail = await waitForMail(server.url, { to: demoAccount('author').email, subject: /remark on your step/, notIn: before });
+    // The demo's own review mails the author too, in the background: wait for this derivation's.
+    const mail = await waitForMail(server.url, { to: demoAccount('author').email, subject: /remark on your step in "Remarks: the marginal coupling"/, notIn: before });
     expect(mail.subject).toContain(demoAccount('reviewer').name);
     expect(mail.subject).toContain('Remarks: the marginal coupling');
     expect(mail.text).toContain('Which sign convention for l?');
@@ -142,7 +143,7 @@ describe('remarks on steps', () => {
     const reply = await demo.as.author.post<Thread>(`/api/derivations/${id}/remarks/${thread.id}/replies`, { body: 'Added: for l much larger than 1/(b g_0).' });
     expect(reply.status).toBe(201);
     // The reviewer took part in the thread: the author's reply reaches them.
-    const replyMail = await waitForMail(server.url, { to: demoAccount('reviewer').email, subject: /replied to a remark/, notIn: beforeReply });
+    const replyMail = await waitForMail(server.url, { to: demoAccount('reviewer').email, subject: /replied to a remark.* in "Remarks: a thread"/, notIn: beforeReply });
     expect(replyMail.text).toContain('Added: for l much larger than');
     expect(replyMail.text).toContain('because you wrote in this remark thread');
 
@@ -385,7 +386,7 @@ describe('mail about claims that turned', () => {
     }
     setField(client.doc, cube, 'rhs', '1 + 3*x - 3*x^2 + x^3');
 
-    const mail = await waitForMail(server.url, { to: author, subject: /claims that held now fail/, notIn: before, timeoutMs: 30_000 });
+    const mail = await waitForMail(server.url, { to: author, subject: /claims that held now fail in "Turned claims: the square"/, notIn: before, timeoutMs: 30_000 });
     expect(mail.subject).toBe('2 claims that held now fail in "Turned claims: the square"');
     expect(mail.text).toMatch(/- square \(identity\): fails/);
     expect(mail.text).toMatch(/- cube \(identity\): fails/);
