@@ -11,6 +11,7 @@
 import type { CompiledModel } from './model';
 import type { CheckOutcome, FlowCheck, LogExponentClaim, PlotData, SanityFlag, SettingsRecord } from './types';
 import { ClaimInputError } from './errors';
+import { formatMeasurement as fmtMeasurement, formatNumber as fmt } from './format';
 import { readProblem, type LogExponentProblem } from './logexp/problem';
 import { leadingOrder, marginalRay, marginalStructure, type LeadingOrder, type MarginalStructure } from './logexp/analytic';
 import { runContinuous } from './logexp/continuous';
@@ -107,7 +108,6 @@ function verdict(measured: number, uncertainty: number, claimed: number, toleran
   return 'inconclusive';
 }
 
-const fmt = (v: number, digits = 10): string => (Number.isFinite(v) ? Number(v.toPrecision(digits)).toString() : String(v));
 const fmtTime = (l: number): string => (l >= 1e4 ? l.toExponential(2) : fmt(l, 4));
 
 function runOnce(problem: LogExponentProblem, start: Float64Array, rtol: number, decades: number, deadline: number, implicitFrom?: number): ExponentRun {
@@ -390,7 +390,7 @@ function claimedRecord(problem: LogExponentProblem): CheckOutcome['expected'] {
 }
 
 function describe(name: string, measured: number, uncertainty: number, claimed: number, tolerance: number, v: string): string {
-  const head = `${name} = ${fmt(measured, 12)} ± ${uncertainty.toExponential(1)}`;
+  const head = `${name} = ${fmtMeasurement(measured, uncertainty)}`;
   if (v === 'holds') return `${head} agrees with the claimed ${fmt(claimed, 12)} (tolerance ${tolerance.toExponential(0)})`;
   if (v === 'fails') return `${head} differs from the claimed ${fmt(claimed, 12)} by ${Math.abs(measured - claimed).toExponential(2)} (tolerance ${tolerance.toExponential(0)})`;
   return `${head} cannot settle the claimed ${fmt(claimed, 12)} within the tolerance ${tolerance.toExponential(0)}`;

@@ -4,7 +4,7 @@ import { type Term, compileScalar, differentiateTimes, div, exactDifference, num
 import { checkName } from '../model';
 import { expandAtZero } from '../numerics/series';
 import type { CoefficientClaim, PlainCheck, Status } from '../types';
-import { fmt, fmtUncertainty, verdict } from './common';
+import { fmt, fmtMeasurement, fmtUncertainty, verdict } from './common';
 import { compareAtPoints, describePoint, domainsFor, parseSides } from './compare';
 
 const DEFAULTS = { points: 8, radius: 0.5, extraDegree: 10 };
@@ -119,10 +119,10 @@ export const checkCoefficient: PlainCheck<CoefficientClaim> = (claim, ctx) => {
     status: result.status,
     message:
       result.status === 'holds'
-        ? `the ${claim.variable}^${claim.power} coefficient is ${fmt(result.measured, 12)} ± ${fmtUncertainty(result.uncertainty)}${atText}, as claimed`
+        ? `the ${claim.variable}^${claim.power} coefficient is ${fmtMeasurement(result.measured, result.uncertainty)}${atText}, as claimed`
         : result.status === 'fails'
-          ? `the ${claim.variable}^${claim.power} coefficient is ${fmt(result.measured, 12)} ± ${fmtUncertainty(result.uncertainty)}${atText}, not ${fmt(result.expected, 12)}`
-          : `the ${claim.variable}^${claim.power} coefficient ${fmt(result.measured, 12)} ± ${fmtUncertainty(result.uncertainty)}${atText} cannot be settled against tolerance ${fmt(tolerance)}`,
+          ? `the ${claim.variable}^${claim.power} coefficient is ${fmtMeasurement(result.measured, result.uncertainty)}${atText}, not ${fmt(result.expected, 12)}`
+          : `the ${claim.variable}^${claim.power} coefficient ${fmtMeasurement(result.measured, result.uncertainty)}${atText} cannot be settled against tolerance ${fmt(tolerance)}`,
     method: symbolic ? 'symbolic derivative not finite at the point; Taylor coefficients by interpolation' : 'no symbolic derivative in mathjs; Taylor coefficients by interpolation',
     measured: result.measured,
     expected: result.expected,

@@ -4,18 +4,10 @@ import { compileScalar, parseTerm, requireKnown, symbolsOf, type Term } from '..
 import type { CompiledModel, ModelPoint } from '../model';
 import type { CouplingPoint, Status, ValueInput } from '../types';
 
-/** A short human form of a number for messages (full precision stays in the JSON fields). */
-export function fmt(value: number, digits = 10): string {
-  if (!Number.isFinite(value)) return String(value);
-  if (value === 0) return '0';
-  if (Number.isInteger(value) && Math.abs(value) < 1e15) return String(value);
-  const text = value.toPrecision(digits);
-  return text.includes('e') ? text.replace(/\.?0+e/, 'e') : text.replace(/(\.\d*?)0+$/, '$1').replace(/\.$/, '');
-}
-
-export function fmtUncertainty(value: number): string {
-  return value.toExponential(1);
-}
+// Numbers in messages come from the one formatting module (full precision stays in the JSON fields).
+import { formatNumber as fmt } from '../format';
+export { fmt };
+export { formatUncertainty as fmtUncertainty, formatMeasurement as fmtMeasurement } from '../format';
 
 /**
  * holds when |measured - expected| + uncertainty <= tolerance, fails when

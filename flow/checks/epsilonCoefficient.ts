@@ -6,7 +6,7 @@ import { ClaimInputError } from '../errors';
 import type { CompiledModel } from '../model';
 import { expandAtZero } from '../numerics/series';
 import type { EpsilonCoefficientClaim, FlowCheck } from '../types';
-import { couplingPoint, evaluatePoint, fmt, fmtUncertainty, parameterExpression, requireParameter, verdict } from './common';
+import { couplingPoint, evaluatePoint, fmt, fmtMeasurement, fmtUncertainty, parameterExpression, requireParameter, verdict } from './common';
 import { LOCATE_DEFAULTS, branchTracker, tightened } from './locate';
 
 const DEFAULTS = { ...LOCATE_DEFAULTS, radius: 0.05, extraDegree: 10 };
@@ -52,10 +52,10 @@ export const checkEpsilonCoefficient: FlowCheck<EpsilonCoefficientClaim, Compile
   const term = `the ${parameter}^${claim.power} coefficient of ${quantity.source} at the fixed point`;
   const message =
     status === 'holds'
-      ? `${term} is ${fmt(measured, 12)} ± ${fmtUncertainty(uncertainty)}, as claimed (${fmt(expected, 12)})`
+      ? `${term} is ${fmtMeasurement(measured, uncertainty)}, as claimed (${fmt(expected, 12)})`
       : status === 'fails'
-        ? `${term} is ${fmt(measured, 12)} ± ${fmtUncertainty(uncertainty)}, not ${fmt(expected, 12)} (difference ${fmt(measured - expected, 4)}, tolerance ${fmt(tolerance)})`
-        : `${term} is ${fmt(measured, 12)} ± ${fmtUncertainty(uncertainty)}: the uncertainty is too large to settle the claim at tolerance ${fmt(tolerance)}`;
+        ? `${term} is ${fmtMeasurement(measured, uncertainty)}, not ${fmt(expected, 12)} (difference ${fmt(measured - expected, 4)}, tolerance ${fmt(tolerance)})`
+        : `${term} is ${fmtMeasurement(measured, uncertainty)}: the uncertainty is too large to settle the claim at tolerance ${fmt(tolerance)}`;
   const curve: Array<[number, number]> = fit.samples
     .map(([e]) => e)
     .sort((a, b) => a - b)

@@ -3,7 +3,7 @@ import { ClaimInputError } from '../errors';
 import type { CompiledModel } from '../model';
 import { expandAtZero } from '../numerics/series';
 import type { CheckOutcome, Evidence, FixedPointClaim, FlowCheck, PlotData, Status } from '../types';
-import { couplingPoint, describePosition, evaluatePoint, fmt, fmtUncertainty, positionRecord, requireParameter, verdict } from './common';
+import { couplingPoint, describePosition, evaluatePoint, fmt, fmtMeasurement, fmtUncertainty, positionRecord, requireParameter, verdict } from './common';
 import { LOCATE_DEFAULTS, branchTracker, locate, searchStats, summarizeFixedPoint, tightened } from './locate';
 
 const DEFAULTS = { ...LOCATE_DEFAULTS, radius: 0.05, extraDegree: 10 };
@@ -126,7 +126,7 @@ function seriesCheck(
       if (v === 'fails') status = 'fails';
       else if (v === 'inconclusive' && status === 'holds') status = 'inconclusive';
       const excess = Math.abs(c) - tolerance;
-      if (excess > worst.excess) worst = { text: `${parameter}^${k} coefficient of ${model.couplings[i]} differs by ${fmt(c, 4)} ± ${fmtUncertainty(u)}`, excess };
+      if (excess > worst.excess) worst = { text: `${parameter}^${k} coefficient of ${model.couplings[i]} differs by ${fmtMeasurement(c, u, 4)}`, excess };
       if (gstar) powers.push({ power: k, value: gstar.coefficients[k]!, uncertainty: gstar.uncertainties[k]!, of: model.couplings[i] });
     }
   }

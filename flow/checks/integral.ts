@@ -4,7 +4,7 @@ import { compileScalar, parseTerm, requireKnown } from '../expr';
 import { checkName } from '../model';
 import { integrate } from '../numerics/quadrature';
 import type { IntegralClaim, PlainCheck } from '../types';
-import { fmt, fmtUncertainty, parameterValue, verdict } from './common';
+import { fmt, fmtMeasurement, fmtUncertainty, parameterValue, verdict } from './common';
 
 const DEFAULTS = { absoluteTolerance: 1e-13, relativeTolerance: 1e-12, maxIntervals: 2000 };
 const DEFAULT_TOLERANCE = 1e-9;
@@ -74,10 +74,10 @@ export const checkIntegral: PlainCheck<IntegralClaim> = (claim, ctx) => {
     status,
     message:
       status === 'holds'
-        ? `the integral is ${fmt(result.value, 15)} ± ${fmtUncertainty(result.error)}, as claimed (${fmt(expected, 15)})`
+        ? `the integral is ${fmtMeasurement(result.value, result.error, 15)}, as claimed (${fmt(expected, 15)})`
         : status === 'fails'
-          ? `the integral is ${fmt(result.value, 15)} ± ${fmtUncertainty(result.error)}, not ${fmt(expected, 15)} (difference ${fmt(result.value - expected, 4)})${reached}`
-          : `the integral is ${fmt(result.value, 15)} ± ${fmtUncertainty(result.error)}: too uncertain to settle the claim at tolerance ${fmt(tolerance)}${reached}`,
+          ? `the integral is ${fmtMeasurement(result.value, result.error, 15)}, not ${fmt(expected, 15)} (difference ${fmt(result.value - expected, 4)})${reached}`
+          : `the integral is ${fmtMeasurement(result.value, result.error, 15)}: too uncertain to settle the claim at tolerance ${fmt(tolerance)}${reached}`,
     method,
     measured: result.value,
     expected,

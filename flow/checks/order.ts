@@ -3,7 +3,7 @@ import { ClaimInputError } from '../errors';
 import { BIG_DIGITS, type Big, compileScalar, evaluateBig, exactDifference, toBig } from '../expr';
 import { checkName } from '../model';
 import type { OrderClaim, PlainCheck, Status } from '../types';
-import { fmt } from './common';
+import { fmt, fmtMeasurement } from './common';
 import { DEFAULT_DOMAIN, domainsFor, parseSides } from './compare';
 
 const DEFAULTS = { start: 0.1, ratio: 0.5, points: 16, slack: 0.25, tail: 6 };
@@ -120,7 +120,7 @@ export const checkOrder: PlainCheck<OrderClaim> = (claim, ctx) => {
       ? `|lhs - rhs| falls like ${claim.variable}^${fmt(slope, 4)} (at least ${claim.variable}^${fmt(claim.order)}); (lhs - rhs)/${claim.variable}^${fmt(claim.order)} = ${fmt(ratio, 4)} at ${claim.variable} = ${fmt(xLast, 4)}`
       : status === 'fails'
         ? `|lhs - rhs| falls only like ${claim.variable}^${fmt(slope, 4)}, not ${claim.variable}^${fmt(claim.order)}: the difference is O(${claim.variable}^${Math.round(slope)})`
-        : `the slope ${fmt(slope, 4)} ± ${fmt(uncertainty, 2)} is too uncertain to settle order ${fmt(claim.order)}`;
+        : `the slope ${fmtMeasurement(slope, uncertainty, 4)} is too uncertain to settle order ${fmt(claim.order)}`;
   return {
     ...base,
     status,
