@@ -4,6 +4,7 @@
 // method, solver settings and statistics, sanity flags and convergence plots.
 import { useState } from 'react';
 import { EvidencePanel } from '@/components/checks/EvidencePanel';
+import { MessageText } from '@/components/checks/MessageText';
 import { VerdictBadge } from '@/components/checks/VerdictBadge';
 import { KIND_LABELS, isClaimKind } from '@/flow/document';
 import type { VersionClaim } from '@/server/versions/types';
@@ -43,7 +44,9 @@ export function ClaimVerdicts({ claims }: { claims: VersionClaim[] }) {
               </button>
             </span>
           </div>
-          <p className="mt-1 text-sm">{claim.result.message}</p>
+          <p className="mt-1 text-sm">
+            <MessageText message={claim.result.message} />
+          </p>
           {open === claim.stepId && (
             <div className="mt-2">
               <EvidencePanel

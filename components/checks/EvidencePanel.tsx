@@ -7,6 +7,8 @@ import type { ReactNode } from 'react';
 import type { ClaimResult, Complex, Measured, PlotData, SettingsRecord } from '@/flow/types';
 import { PlotFrame } from '../plot';
 import { evidencePlot } from '../plot/evidence';
+import { formatMeasurement, formatNumber as formatFlowNumber, formatUncertainty, formatValueAt } from '@/flow/format';
+import { MessageText } from './MessageText';
 import { VerdictBadge } from './VerdictBadge';
 import type { VerdictState } from './verdict';
 
@@ -42,11 +44,7 @@ export interface EvidencePanelProps {
 // ----- numbers ---------------------------------------------------------------------------------
 
 export function formatNumber(value: number, digits = 12): string {
-  if (!Number.isFinite(value)) return String(value);
-  if (value === 0) return '0';
-  if (Number.isInteger(value) && Math.abs(value) < 1e15) return String(value);
-  const text = value.toPrecision(digits);
-  return text.includes('e') ? text.replace(/\.?0+e/, 'e') : text.replace(/(\.\d*?)0+$/, '$1').replace(/\.$/, '');
+  return formatFlowNumber(value, digits);
 }
 
 function formatComplex(value: number | Complex): string {
@@ -118,10 +116,19 @@ function Pairs({ record, label }: { record: SettingsRecord; label: string }) {
   );
 }
 
+/** The measured value, a single number written to the digit its uncertainty reaches. */
+function measuredText(result: ClaimResult): string {
+  return typeof result.measured === 'number' ? formatValueAt(result.measured, result.uncertainty) : formatMeasured(result.measured);
+}
+
+function uncertaintyText(result: ClaimResult): string {
+  return result.uncertainty === null ? '—' : `± ${formatUncertainty(result.uncertainty)}`;
+}
+
 function Comparison({ run, tight }: { run: ClaimResult; tight: ClaimResult | null }) {
   const rows: { label: string; now: string; tighter?: string }[] = [
-    { label: 'Measured', now: formatMeasured(run.measured), tighter: tight ? formatMeasured(tight.measured) : undefined },
-    { label: 'Uncertainty', now: run.uncertainty === null ? '—' : `± ${run.uncertainty.toExponential(1)}`, tighter: tight ? (tight.uncertainty === null ? '—' : `± ${tight.uncertainty.toExponential(1)}`) : undefined },
+    { label: 'Measured', now: measuredText(run), tighter: tight ? measuredText(tight) : undefined },
+    { label: 'Uncertainty', now: uncertaintyText(run), tighter: tight ? uncertaintyText(tight) : undefined },
     { label: 'Claimed', now: formatMeasured(run.expected), tighter: tight ? formatMeasured(tight.expected) : undefined },
     { label: 'Measured − claimed', now: difference(run.measured, run.expected) ?? '—', tighter: tight ? (difference(tight.measured, tight.expected) ?? '—') : undefined },
     { label: 'Tolerance', now: run.tolerance === null ? '—' : run.tolerance.toExponential(1), tighter: tight ? (tight.tolerance === null ? '—' : tight.tolerance.toExponential(1)) : undefined },
@@ -223,11 +230,9 @@ function FoundValues({ result }: { result: ClaimResult }) {
             {coefficients.map((c) => (
               <tr key={`${c.of ?? ''}${c.power}`}>
                 <th scope="row" className="pr-3 text-left font-normal text-ink-soft">
-                  {c.of ? `${c.of}, ` : ''}eps^{c.power}
+                  {c.of ? `${c.of}, ` : ''}eps<sup>{c.power}</sup>
                 </th>
-                <td className="font-mono text-xs">
-                  {formatNumber(c.value)} ± {c.uncertainty.toExponential(1)}
-                </td>
+                <td className="font-mono text-xs">{formatMeasurement(c.value, c.uncertainty)}</td>
               </tr>
             ))}
           </tbody>
@@ -276,7 +281,11 @@ export function EvidencePanel(props: EvidencePanelProps) {
 
       <div className={`mt-3 ${run.stale ? 'opacity-60' : ''}`}>
         <VerdictBadge state={run.state} className="text-base font-semibold" />
-        {run.message && <p className="mt-1 text-sm" data-evidence-message>{run.message}</p>}
+        {run.message && (
+          <p className="mt-1 text-sm" data-evidence-message>
+            <MessageText message={run.message} />
+          </p>
+        )}
         {props.note && <p className="mt-1 text-sm italic text-ink-soft">Note: {props.note}</p>}
         {props.notice && <p className="mt-1 text-sm italic text-ink-soft">{props.notice}.</p>}
       </div>
@@ -290,7 +299,11 @@ export function EvidencePanel(props: EvidencePanelProps) {
                 With tighter settings: <VerdictBadge state={tightResult.status} />
               </p>
             )}
-            {tight && tightResult && tightResult.message !== result.message && <p className="mt-1 text-sm text-ink-soft">{tightResult.message}</p>}
+            {tight && tightResult && tightResult.message !== result.message && (
+              <p className="mt-1 text-sm text-ink-soft">
+                <MessageText message={tightResult.message} />
+              </p>
+            )}
           </Section>
           <Section title="Method">
             <p className="text-sm">{result.method}</p>

@@ -7,6 +7,7 @@
 import type { Editor, NodeViewRendererProps } from '@tiptap/core';
 import type { Node as ProseMirrorNode } from '@tiptap/pm/model';
 import type { EditorView, NodeView, ViewMutationRecord } from '@tiptap/pm/view';
+import { fillMessage } from '@/components/checks/MessageText';
 import { verdictBadgeElement } from '@/components/checks/verdict';
 import { CLAIM_KINDS, type ClaimKind } from '@/flow/types';
 import { FLOW_FIELDS, FLOW_ROWS, KIND_LABELS, claimFields, isClaimKind, type FieldSpec, type RowKind } from '@/flow/document/layout';
@@ -472,7 +473,7 @@ class ClaimBlockView implements NodeView {
     this.dom.classList.toggle('is-stale', verdict.stale);
     const badge = verdictBadgeElement(verdict.state);
     this.badgeSlot.replaceChildren(badge);
-    this.verdictLine.textContent = verdict.message;
+    fillMessage(this.verdictLine, verdict.message);
     this.verdictLine.hidden = verdict.message === '';
     this.noteLine.textContent = claim?.note ? `Note: ${claim.note}.` : '';
     this.noteLine.hidden = !claim?.note;
