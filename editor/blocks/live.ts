@@ -33,6 +33,10 @@ export interface ClaimView {
   since: number | null;
   note: string | null;
   tight: TightRun | null;
+  /** The verdict was supplied by the view (`supplyVerdicts`), not checked by this browser. */
+  supplied?: boolean;
+  /** This browser's own check of a claim whose verdict was supplied (`checkHere`). */
+  here?: TightRun | null;
 }
 
 export interface LiveSnapshot {
@@ -117,6 +121,10 @@ export class LiveChecks {
   private readonly tightByStep = new Map<string, CheckItem>();
   private readonly imports = new Map<number, (answer: ImportAnswer) => void>();
   private evidenceFor: string | null = null;
+  /** Verdicts supplied by the view, by step; null: every claim is checked here. */
+  private supplied: ReadonlyMap<string, ClaimResult> | null = null;
+  /** Steps with a supplied verdict that the reader asked to check here as well. */
+  private readonly hereSteps = new Set<string>();
   private failure: string | null = null;
   private fieldRestarts = 0;
   private current: LiveSnapshot = { version: 0, ready: false, flows: [], claims: [], evidenceFor: null, busy: false, failure: null };
@@ -267,7 +275,41 @@ export class LiveChecks {
       if (!item || `${item.ticket}:tight` !== tight.ticket) this.tightByStep.delete(stepId);
     }
     if (this.evidenceFor && !reading.claims.some((c) => c.stepId === this.evidenceFor)) this.evidenceFor = null;
-    this.checks.want(reading.items);
+    this.checks.want(this.wantedItems());
+    this.rebuild();
+  }
+
+  /** The claims the check worker runs: all of them, or those without a supplied verdict and those asked for here. */
+  private wantedItems(): CheckItem[] {
+    const items = this.reading?.items ?? [];
+    const supplied = this.supplied;
+    return supplied ? items.filter((item) => !supplied.has(item.stepId) || this.hereSteps.has(item.stepId)) : [...items];
+  }
+
+  // ----- verdicts from elsewhere ---------------------------------------------------------------
+
+  /**
+   * A view that shows verdicts decided elsewhere (a locked version's stored check report): each
+   * claim with a verdict here shows it, and is not sent to the check worker unless `checkHere`
+   * asks for it. null gives every claim back to the worker.
+   */
+  supplyVerdicts(verdicts: ReadonlyMap<string, ClaimResult> | null): void {
+    this.supplied = verdicts;
+    this.hereSteps.clear();
+    if (this.reading) this.checks.want(this.wantedItems());
+    this.rebuild();
+  }
+
+  /** Checks a claim whose verdict was supplied in this browser too; its result is the view's `here`. */
+  checkHere(stepId: string): void {
+    if (!this.supplied?.has(stepId)) return;
+    const item = this.itemByStep.get(stepId);
+    if (this.hereSteps.has(stepId)) {
+      if (item && this.checks.status(item.ticket).state === 'cancelled') this.checks.checkAgain(item.ticket);
+      return;
+    }
+    this.hereSteps.add(stepId);
+    if (this.reading) this.checks.want(this.wantedItems());
     this.rebuild();
   }
 
@@ -473,6 +515,13 @@ export class LiveChecks {
     const tightItem = this.tightByStep.get(info.stepId);
     const tightStatus = tightItem ? this.checks.status(tightItem.ticket) : null;
     const tight: TightRun | null = tightStatus ? { state: tightStatus.state, result: tightStatus.result, since: tightStatus.since } : null;
+    const supplied = this.supplied?.get(info.stepId);
+    if (supplied) {
+      // The view's verdict is the one shown; this browser's own check, if asked for, stands beside it.
+      const hereStatus = info.hash && this.hereSteps.has(info.stepId) ? this.checks.status(info.hash) : null;
+      const here: TightRun | null = hereStatus ? { state: hereStatus.state, result: hereStatus.result, since: hereStatus.since } : null;
+      return { info, flowNumber, state: 'done', result: supplied, previous: null, since: null, note: hereStatus?.note ?? null, tight, supplied: true, here };
+    }
     if (!info.hash || info.invalid) {
       return { info, flowNumber, state: 'invalid', result: info.invalid, previous: null, since: null, note: null, tight: null };
     }
@@ -534,6 +583,8 @@ function claimKey(view: ClaimView, flowsKey: string, previewKey: string): string
     view.since,
     view.note,
     view.tight ? [view.tight.state, result(view.tight.result), view.tight.since] : null,
+    view.supplied ?? false,
+    view.here ? [view.here.state, result(view.here.result), view.here.since] : null,
     flowsKey,
     previewKey,
   ]);
