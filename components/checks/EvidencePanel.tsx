@@ -39,7 +39,35 @@ export interface EvidencePanelProps {
   onShowInText: () => void;
   /** Further evidence from elsewhere, e.g. an attached dataset (components/datasets). */
   extra?: ReactNode;
+  /** Words for the second run beside this one; by default the reviewer's run with tighter settings. */
+  secondRun?: SecondRunWords;
 }
+
+export interface SecondRunWords {
+  /** Column heads: this run and the second one. */
+  thisColumn: string;
+  column: string;
+  /** Before the second run's verdict, e.g. "With tighter settings:". */
+  verdict: string;
+  button: string;
+  running: string;
+  cancelled: string;
+  /** Heading of the second run's settings. */
+  settings: string;
+  /** Under the button: what the second run is. */
+  explanation: string;
+}
+
+const TIGHTER_RUN: SecondRunWords = {
+  thisColumn: 'this check',
+  column: 'tighter settings',
+  verdict: 'With tighter settings:',
+  button: 'Run again with tighter settings',
+  running: 'running with tighter settings…',
+  cancelled: 'The tighter run was cancelled.',
+  settings: 'Tighter settings',
+  explanation: 'Tighter settings: smaller tolerances, longer RG time, more points and starts; a longer time bound.',
+};
 
 // ----- numbers ---------------------------------------------------------------------------------
 
@@ -125,7 +153,7 @@ function uncertaintyText(result: ClaimResult): string {
   return result.uncertainty === null ? '—' : `± ${formatUncertainty(result.uncertainty)}`;
 }
 
-function Comparison({ run, tight }: { run: ClaimResult; tight: ClaimResult | null }) {
+function Comparison({ run, tight, words }: { run: ClaimResult; tight: ClaimResult | null; words: SecondRunWords }) {
   const rows: { label: string; now: string; tighter?: string }[] = [
     { label: 'Measured', now: measuredText(run), tighter: tight ? measuredText(tight) : undefined },
     { label: 'Uncertainty', now: uncertaintyText(run), tighter: tight ? uncertaintyText(tight) : undefined },
@@ -140,8 +168,8 @@ function Comparison({ run, tight }: { run: ClaimResult; tight: ClaimResult | nul
         <thead>
           <tr className="text-left text-xs text-ink-faint">
             <th className="font-normal" />
-            <th className="font-normal">this check</th>
-            <th className="font-normal">tighter settings</th>
+            <th className="font-normal">{words.thisColumn}</th>
+            <th className="font-normal">{words.column}</th>
           </tr>
         </thead>
       )}
@@ -257,6 +285,7 @@ export function EvidencePanel(props: EvidencePanelProps) {
   const result = run.result;
   const tightResult = tight?.result ?? null;
   const tightRunning = tight?.state === 'checking' || tight?.state === 'queued';
+  const words = props.secondRun ?? TIGHTER_RUN;
   return (
     <article aria-label={`Evidence: ${props.title}`} className="rounded border border-rule bg-white/80 p-3" data-evidence-panel>
       <header className="flex flex-wrap items-start justify-between gap-2">
@@ -293,10 +322,10 @@ export function EvidencePanel(props: EvidencePanelProps) {
       {result && result.method !== 'none' && (
         <>
           <Section title="Measured and claimed">
-            <Comparison run={result} tight={tightResult} />
+            <Comparison run={result} tight={tightResult} words={words} />
             {tight && tightResult && (
               <p className="mt-1 flex items-baseline gap-2 text-sm">
-                With tighter settings: <VerdictBadge state={tightResult.status} />
+                {words.verdict} <VerdictBadge state={tightResult.status} />
               </p>
             )}
             {tight && tightResult && tightResult.message !== result.message && (
@@ -312,8 +341,8 @@ export function EvidencePanel(props: EvidencePanelProps) {
             <Pairs record={result.settings} label="Solver settings" />
           </Section>
           {tightResult && (
-            <Section title="Tighter settings">
-              <Pairs record={tightResult.settings} label="Tighter settings" />
+            <Section title={words.settings}>
+              <Pairs record={tightResult.settings} label={words.settings} />
             </Section>
           )}
           <Section title="Solver statistics">
@@ -342,19 +371,19 @@ export function EvidencePanel(props: EvidencePanelProps) {
           disabled={!props.canRunTight || tightRunning}
           onClick={props.onRunTight}
         >
-          Run again with tighter settings
+          {words.button}
         </button>
         {tightRunning && (
           <>
-            <VerdictBadge state="checking" label="running with tighter settings…" />
+            <VerdictBadge state="checking" label={words.running} />
             <button type="button" className="rounded border border-rule px-2 py-0.5 text-sm hover:border-ink-faint" onClick={props.onCancel}>
               Cancel
             </button>
           </>
         )}
-        {tight?.state === 'cancelled' && <span className="text-sm text-ink-soft">The tighter run was cancelled.</span>}
+        {tight?.state === 'cancelled' && <span className="text-sm text-ink-soft">{words.cancelled}</span>}
       </div>
-      <p className="mt-1 text-xs text-ink-faint">Tighter settings: smaller tolerances, longer RG time, more points and starts; a longer time bound.</p>
+      <p className="mt-1 text-xs text-ink-faint">{words.explanation}</p>
 
       {props.written.length > 0 && (
         <Section title="The claim as written">
