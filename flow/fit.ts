@@ -7,10 +7,11 @@
  */
 
 export interface FitData {
-  x: readonly number[];
-  y: readonly number[];
+  /** Plain arrays or typed ones (a fit worker receives Float64Arrays). */
+  x: ArrayLike<number>;
+  y: ArrayLike<number>;
   /** Error bars (one standard deviation) of y; omitted when the data carry none. */
-  sigma?: readonly number[] | null;
+  sigma?: ArrayLike<number> | null;
 }
 
 /** An exponent held at a number, or left free (null or omitted). */

@@ -1,11 +1,14 @@
 'use client';
 // A dataset drawn with its error bars and fitted to A x^a |ln x|^p: each exponent held at a value
 // or left free, the fitted values with their uncertainties and the goodness of fit, and whether
-// the data agree with a claimed exponent within their errors. All numerics come from flow/fit.ts.
+// the data agree with a claimed exponent within their errors. All numerics come from flow/fit.ts,
+// run in the fit worker for a large dataset (fitClient.ts) while the panel says "Fitting…".
 import { useMemo, useState } from 'react';
-import { agreesWithExponent, fitPowerLog, FitInputError, type ExponentAgreement, type PowerLogFit } from '@/flow/fit';
+import type { ExponentAgreement, PowerLogFit } from '@/flow/fit';
 import { PlotFrame, type PlotSeries } from '../plot';
 import { StatusWord, type CheckStatus } from '../StatusWord';
+import { shownJob, useFitJobs, type ShownJob } from './fitClient';
+import type { FitJob } from './fitJobs';
 import { axisLabel, datasetPlotSeries, drawnStride, fitPlotSeries, rangeOf, type SeriesInput } from './series';
 
 export type { SeriesInput };
@@ -68,24 +71,45 @@ export function AgreementVerdict({ agreement }: { agreement: ExponentAgreement }
   );
 }
 
+/** "Fitting…" while the fit worker has a panel's request (the previous answer stays, faded). */
+export function Fitting({ shown }: { shown: ShownJob }) {
+  if (!shown.fitting) return null;
+  return (
+    <p role="status" data-testid="fitting" className="mb-2 text-ink-soft">
+      Fitting… ({shown.rows.toLocaleString('en-GB')} points)
+    </p>
+  );
+}
+
+function answerOf(shown: ShownJob, kind: 'fit'): { fit: PowerLogFit } | { error: string } | null;
+function answerOf(shown: ShownJob, kind: 'agreement'): { agreement: ExponentAgreement } | { error: string } | null;
+function answerOf(shown: ShownJob, kind: 'fit' | 'agreement'): { fit: PowerLogFit } | { agreement: ExponentAgreement } | { error: string } | null {
+  if (shown.failure) return { error: shown.failure };
+  const result = shown.result;
+  if (!result) return null;
+  if (result.kind === 'refused') return { error: result.message };
+  if (result.kind === 'fit' && kind === 'fit') return { fit: result.fit };
+  if (result.kind === 'agreement' && kind === 'agreement') return { agreement: result.agreement };
+  return null;
+}
+
+// Constant so that the plot frame (memoised) is not drawn again on every change of a control.
+const NO_PREDICTIONS: PlotSeries[] = [];
+
 /** The dataset drawn with its error bars (beside any predicted curves) and fitted; `predictions` are series of the plot frame. */
-export function FitPanel({ series, predictions = [] }: { series: SeriesInput; predictions?: PlotSeries[] }) {
+export function FitPanel({ series, predictions = NO_PREDICTIONS }: { series: SeriesInput; predictions?: PlotSeries[] }) {
   const n = series.x.values.length;
-  const positive = series.x.values.every((v) => v > 0) && series.y.values.every((v) => v > 0);
+  // A pass over every row (up to a million): once per dataset, not once per render.
+  const positive = useMemo(() => series.x.values.every((v) => v > 0) && series.y.values.every((v) => v > 0), [series]);
   const span = (values: number[]) => {
     const [lo, hi] = rangeOf(values);
     return hi / lo;
   };
-  const [logX, setLogX] = useState(positive && span(series.x.values) > 20);
-  const [logY, setLogY] = useState(positive && span(series.y.values) > 20);
+  const [logX, setLogX] = useState(() => positive && span(series.x.values) > 20);
+  const [logY, setLogY] = useState(() => positive && span(series.y.values) > 20);
   const [a, setA] = useState<ExponentChoice>({ free: true, value: '1' });
   const [p, setP] = useState<ExponentChoice>({ free: false, value: '0' });
   const [claim, setClaim] = useState<{ parameter: 'a' | 'p'; value: string }>({ parameter: 'p', value: '0.25' });
-
-  const data = useMemo(
-    () => ({ x: series.x.values, y: series.y.values, sigma: series.sigma?.values ?? null }),
-    [series],
-  );
 
   const held = (c: ExponentChoice): number | null | 'bad' => {
     if (c.free) return null;
@@ -93,57 +117,58 @@ export function FitPanel({ series, predictions = [] }: { series: SeriesInput; pr
     return c.value.trim() !== '' && Number.isFinite(v) ? v : 'bad';
   };
 
-  const fit = useMemo((): { fit: PowerLogFit } | { error: string } => {
-    const heldA = held(a);
-    const heldP = held(p);
-    if (heldA === 'bad' || heldP === 'bad') return { error: 'A held exponent must be a number.' };
-    try {
-      return { fit: fitPowerLog(data, { a: heldA, p: heldP }) };
-    } catch (error) {
-      if (error instanceof FitInputError) return { error: error.message };
-      throw error;
-    }
-  }, [data, a, p]);
+  const heldA = held(a);
+  const heldP = held(p);
+  const heldBad = heldA === 'bad' || heldP === 'bad';
+  const fitJob: FitJob[] | null = heldA === 'bad' || heldP === 'bad' ? null : [{ kind: 'fit', spec: { a: heldA, p: heldP } }];
+  const fitShown = shownJob(useFitJobs(series, fitJob));
+  const fit = heldBad ? { error: 'A held exponent must be a number.' } : answerOf(fitShown, 'fit');
 
-  const agreement = useMemo((): { result: ExponentAgreement } | { error: string } | null => {
-    const claimed = Number(claim.value);
-    if (claim.value.trim() === '' || !Number.isFinite(claimed)) return { error: 'The claimed exponent must be a number.' };
-    const otherChoice = claim.parameter === 'a' ? p : a;
-    const other = held(otherChoice);
-    if (other === 'bad') return { error: 'A held exponent must be a number.' };
-    try {
-      return { result: agreesWithExponent(data, claim.parameter, claimed, { other }) };
-    } catch (error) {
-      if (error instanceof FitInputError) return { error: error.message };
-      throw error;
-    }
-  }, [data, claim, a, p]);
+  const claimed = Number(claim.value);
+  const claimBad = claim.value.trim() === '' || !Number.isFinite(claimed);
+  const other = held(claim.parameter === 'a' ? p : a);
+  const agreementJob: FitJob[] | null =
+    claimBad || other === 'bad' ? null : [{ kind: 'agreement', parameter: claim.parameter, claimed, options: { other } }];
+  const agreementShown = shownJob(useFitJobs(series, agreementJob));
+  const agreement = claimBad
+    ? { error: 'The claimed exponent must be a number.' }
+    : other === 'bad'
+      ? { error: 'A held exponent must be a number.' }
+      : answerOf(agreementShown, 'agreement');
 
+  const fitted = fit && 'fit' in fit ? fit.fit : null;
   const plotted = useMemo<PlotSeries[]>(() => {
     const out: PlotSeries[] = [datasetPlotSeries(series), ...predictions];
-    if ('fit' in fit) out.push(fitPlotSeries(fit.fit, series.x.values, logX));
+    if (fitted) out.push(fitPlotSeries(fitted, series.x.values, logX));
     return out;
-  }, [fit, predictions, series, logX]);
+  }, [fitted, predictions, series, logX]);
   const stride = drawnStride(n);
+  const xAxis = useMemo(() => ({ label: axisLabel(series.x), scale: logX ? ('log' as const) : ('linear' as const) }), [series, logX]);
+  const yAxis = useMemo(() => ({ label: axisLabel(series.y), scale: logY ? ('log' as const) : ('linear' as const) }), [series, logY]);
+  const notes = useMemo(() => (stride > 1 ? [`Drawn: every ${stride}th of ${n.toLocaleString('en-GB')} points; the fit uses them all.`] : []), [stride, n]);
+  const axisChoices = useMemo(
+    () => (
+      <span className="flex gap-3 text-sm">
+        <label className="inline-flex items-center gap-1">
+          <input type="checkbox" checked={logX} disabled={!positive} onChange={(e) => setLogX(e.target.checked)} /> log x
+        </label>
+        <label className="inline-flex items-center gap-1">
+          <input type="checkbox" checked={logY} disabled={!positive} onChange={(e) => setLogY(e.target.checked)} /> log y
+        </label>
+      </span>
+    ),
+    [logX, logY, positive],
+  );
 
   return (
     <div className="flex flex-col gap-4">
       <PlotFrame
         title={`${axisLabel(series.y)} against ${axisLabel(series.x)}`}
-        x={{ label: axisLabel(series.x), scale: logX ? 'log' : 'linear' }}
-        y={{ label: axisLabel(series.y), scale: logY ? 'log' : 'linear' }}
+        x={xAxis}
+        y={yAxis}
         series={plotted}
-        notes={stride > 1 ? [`Drawn: every ${stride}th of ${n.toLocaleString('en-GB')} points; the fit uses them all.`] : []}
-        actions={
-          <span className="flex gap-3 text-sm">
-            <label className="inline-flex items-center gap-1">
-              <input type="checkbox" checked={logX} disabled={!positive} onChange={(e) => setLogX(e.target.checked)} /> log x
-            </label>
-            <label className="inline-flex items-center gap-1">
-              <input type="checkbox" checked={logY} disabled={!positive} onChange={(e) => setLogY(e.target.checked)} /> log y
-            </label>
-          </span>
-        }
+        notes={notes}
+        actions={axisChoices}
       />
 
       <section aria-label="Fit" className="rounded border border-rule bg-white/40 p-4">
@@ -154,12 +179,18 @@ export function FitPanel({ series, predictions = [] }: { series: SeriesInput; pr
           <ExponentControl name="a" words="power of x" choice={a} onChange={setA} />
           <ExponentControl name="p" words="power of |ln x|" choice={p} onChange={setP} />
         </div>
-        {'error' in fit ? (
+        <Fitting shown={fitShown} />
+        {fit && 'error' in fit && (
           <p role="alert" className="text-verdict-fails">
             {fit.error}
           </p>
-        ) : (
-          <dl className="grid grid-cols-[12rem_1fr] gap-x-4 gap-y-1" data-testid="fit-result">
+        )}
+        {fit && 'fit' in fit && (
+          <dl
+            className={`grid grid-cols-[12rem_1fr] gap-x-4 gap-y-1 ${fitShown.fitting ? 'opacity-50' : ''}`}
+            data-testid="fit-result"
+            aria-busy={fitShown.fitting}
+          >
             <dt className="text-ink-soft">A</dt>
             <dd>
               <ValueWithError {...fit.fit.A} />
@@ -209,7 +240,17 @@ export function FitPanel({ series, predictions = [] }: { series: SeriesInput; pr
           </label>
           <span className="text-sm text-ink-faint">the other exponent as set for the fit above</span>
         </div>
-        {agreement && ('error' in agreement ? <p role="alert" className="text-verdict-fails">{agreement.error}</p> : <AgreementVerdict agreement={agreement.result} />)}
+        <Fitting shown={agreementShown} />
+        {agreement && 'error' in agreement && (
+          <p role="alert" className="text-verdict-fails">
+            {agreement.error}
+          </p>
+        )}
+        {agreement && 'agreement' in agreement && (
+          <div className={agreementShown.fitting ? 'opacity-50' : ''} aria-busy={agreementShown.fitting}>
+            <AgreementVerdict agreement={agreement.agreement} />
+          </div>
+        )}
         <p className="mt-2 text-sm text-ink-faint">A fit is evidence, not a proof: it tests the data against the law within their stated errors.</p>
       </section>
     </div>

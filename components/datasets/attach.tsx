@@ -4,10 +4,12 @@
 // errors, with the data drawn beside the fitted law. The routes go through the derivation, which
 // a block knows (its group it need not).
 import { useEffect, useId, useMemo, useState } from 'react';
-import { agreesWithExponent, fitPowerLog, FitInputError, type ExponentAgreement, type PowerLogFit } from '@/flow/fit';
+import type { ExponentAgreement, PowerLogFit } from '@/flow/fit';
 import type { ClaimResult } from '@/flow/types';
 import { PlotFrame, type PlotSeries } from '../plot';
-import { AgreementVerdict, formatNumber } from './FitPanel';
+import { AgreementVerdict, Fitting, formatNumber } from './FitPanel';
+import { shownJob, useFitJobs } from './fitClient';
+import { fitDataOf, runFitJob, type FitJob, type FitJobResult } from './fitJobs';
 import { axisLabel, datasetPlotSeries, fitPlotSeries, rangeOf, type SeriesInput } from './series';
 
 export interface DatasetChoice {
@@ -139,37 +141,39 @@ export function guessAbscissa(series: SeriesInput): Abscissa {
 
 const powerOf = (law: ClaimedLaw, abscissa: Abscissa): number | null => (law.power == null ? null : abscissa === 'inverse' ? law.power : -law.power);
 
+/** The fits behind datasetVerdicts: each claimed exponent tested with the other held (or free), then the claimed law with its amplitude fitted. */
+export function verdictJobs(law: ClaimedLaw, abscissa: Abscissa): FitJob[] {
+  const a = powerOf(law, abscissa);
+  const p = law.logPower ?? null;
+  const jobs: FitJob[] = [];
+  if (p !== null) jobs.push({ kind: 'agreement', parameter: 'p', claimed: p, options: { other: a } });
+  if (a !== null) jobs.push({ kind: 'agreement', parameter: 'a', claimed: a, options: { other: p } });
+  if (a !== null || p !== null) jobs.push({ kind: 'fit', spec: { a, p } });
+  return jobs;
+}
+
+/** The verdicts from the answers to verdictJobs; a refusal by the data stands for all of them. */
+export function verdictsFrom(results: readonly FitJobResult[]): DatasetVerdicts {
+  const refused = results.find((r) => r.kind === 'refused');
+  if (refused) return { agreements: [], claimedFit: null, error: refused.message };
+  const agreements = results.flatMap((r) => (r.kind === 'agreement' ? [r.agreement] : []));
+  const claimedFit = results.find((r) => r.kind === 'fit');
+  return { agreements, claimedFit: claimedFit ? claimedFit.fit : null, error: null };
+}
+
 /**
  * Whether the data agree with a claim O ~ t^-x |ln t|^p: each claimed exponent tested with the other
  * held at its claimed value (or free when the claim leaves it open).
  */
 export function datasetVerdicts(series: SeriesInput, law: ClaimedLaw, abscissa: Abscissa = 't'): DatasetVerdicts {
-  const data = { x: series.x.values, y: series.y.values, sigma: series.sigma?.values ?? null };
-  const a = powerOf(law, abscissa);
-  const p = law.logPower ?? null;
-  try {
-    const agreements: ExponentAgreement[] = [];
-    if (p !== null) agreements.push(agreesWithExponent(data, 'p', p, { other: a }));
-    if (a !== null) agreements.push(agreesWithExponent(data, 'a', a, { other: p }));
-    const claimedFit = a !== null || p !== null ? fitPowerLog(data, { a, p }) : null;
-    return { agreements, claimedFit, error: null };
-  } catch (error) {
-    if (error instanceof FitInputError) return { agreements: [], claimedFit: null, error: error.message };
-    throw error;
-  }
+  const data = fitDataOf(series);
+  return verdictsFrom(verdictJobs(law, abscissa).map((job) => runFitJob(data, job)));
 }
 
-/** The law with both exponents held and only its amplitude fitted to the data, or null when it cannot be. */
-function amplitudeFitted(series: SeriesInput, law: ClaimedLaw, abscissa: Abscissa): PowerLogFit | null {
-  if (law.power == null && law.logPower == null) return null;
-  try {
-    return fitPowerLog(
-      { x: series.x.values, y: series.y.values, sigma: series.sigma?.values ?? null },
-      { a: powerOf(law, abscissa), p: law.logPower ?? null },
-    );
-  } catch {
-    return null;
-  }
+/** The law with both exponents held and only its amplitude fitted to the data (none when it states neither). */
+function amplitudeJobs(law: ClaimedLaw | undefined, abscissa: Abscissa): FitJob[] {
+  if (!law || (law.power == null && law.logPower == null)) return [];
+  return [{ kind: 'fit', spec: { a: powerOf(law, abscissa), p: law.logPower ?? null } }];
 }
 
 /**
@@ -191,20 +195,35 @@ export function DatasetEvidence({
   const loaded = useDatasetSeries(derivationId, datasetId);
   const [chosenAbscissa, setAbscissa] = useState<Abscissa | null>(null);
   const abscissa = chosenAbscissa ?? (loaded?.state === 'ready' ? guessAbscissa(loaded.value) : 't');
-  const verdicts = useMemo(() => (loaded?.state === 'ready' ? datasetVerdicts(loaded.value, law, abscissa) : null), [loaded, law, abscissa]);
-  const predicted = useMemo(
-    () => (loaded?.state === 'ready' && prediction ? amplitudeFitted(loaded.value, prediction, abscissa) : null),
-    [loaded, prediction, abscissa],
-  );
+  const ready = loaded?.state === 'ready' ? loaded.value : null;
+  const forVerdicts = verdictJobs(law, abscissa);
+  const state = useFitJobs(ready, [...forVerdicts, ...amplitudeJobs(prediction, abscissa)]);
+  const results = state?.state === 'done' ? state.results : state?.state === 'fitting' ? state.last : null;
+  const verdicts = state?.state === 'failed' ? { agreements: [], claimedFit: null, error: state.message } : results ? verdictsFrom(results.slice(0, forVerdicts.length)) : null;
+  const predictedResult = results?.[forVerdicts.length];
+  const predicted = predictedResult?.kind === 'fit' ? predictedResult.fit : null;
+  const claimedFit = verdicts?.claimedFit ?? null;
+  const fitting = shownJob(state);
+  // Passes over every row: once per dataset and answer, not once per render.
+  const log = useMemo(() => {
+    if (!ready) return false;
+    const [lo, hi] = rangeOf(ready.x.values);
+    return ready.x.values.every((v) => v > 0) && ready.y.values.every((v) => v > 0) && hi / lo > 20;
+  }, [ready]);
+  const drawn = useMemo(() => {
+    if (!ready) return [];
+    const out: PlotSeries[] = [datasetPlotSeries(ready)];
+    if (claimedFit) out.push({ ...fitPlotSeries(claimedFit, ready.x.values, log, 'claimed-law'), name: 'claimed law, amplitude fitted' });
+    if (predicted) out.push({ ...fitPlotSeries(predicted, ready.x.values, log, 'flow-prediction'), name: 'flow’s prediction, amplitude fitted', look: 'line' });
+    return out;
+  }, [ready, claimedFit, predicted, log]);
+  const axes = useMemo(() => {
+    const scale = log ? ('log' as const) : ('linear' as const);
+    return { x: { label: ready ? axisLabel(ready.x) : '', scale }, y: { label: ready ? axisLabel(ready.y) : '', scale } };
+  }, [ready, log]);
   if (!loaded || loaded.state === 'loading') return <p className="text-ink-faint" role="status">Loading the dataset…</p>;
   if (loaded.state === 'error') return <p role="alert" className="text-verdict-fails">The dataset could not be loaded: {loaded.message}</p>;
   const series = loaded.value;
-  const positive = series.x.values.every((v) => v > 0) && series.y.values.every((v) => v > 0);
-  const [lo, hi] = rangeOf(series.x.values);
-  const log = positive && hi / lo > 20;
-  const drawn: PlotSeries[] = [datasetPlotSeries(series)];
-  if (verdicts?.claimedFit) drawn.push({ ...fitPlotSeries(verdicts.claimedFit, series.x.values, log, 'claimed-law'), name: 'claimed law, amplitude fitted' });
-  if (predicted) drawn.push({ ...fitPlotSeries(predicted, series.x.values, log, 'flow-prediction'), name: 'flow’s prediction, amplitude fitted', look: 'line' });
   return (
     <section aria-label="Evidence from the dataset" className="flex flex-col gap-2" data-testid="dataset-evidence">
       <h4 className="font-semibold">Data: {series.name}</h4>
@@ -215,18 +234,21 @@ export function DatasetEvidence({
           <option value="inverse">its inverse, 1/t (e.g. a walk length T)</option>
         </select>
       </label>
+      <Fitting shown={fitting} />
       {verdicts?.error && <p role="alert" className="text-verdict-fails">{verdicts.error}</p>}
-      {verdicts?.agreements.map((agreement) => <AgreementVerdict key={agreement.parameter} agreement={agreement} />)}
-      {verdicts?.claimedFit && (
-        <p className="text-sm text-ink-soft">
-          Claimed law with its amplitude fitted: χ²/dof = {formatNumber(verdicts.claimedFit.reducedChi2, 3)}
-          {verdicts.claimedFit.pValue !== null && <>, p-value {formatNumber(verdicts.claimedFit.pValue, 3)}</>}.
-        </p>
-      )}
+      <div className={`flex flex-col gap-2 ${fitting.fitting ? 'opacity-50' : ''}`} aria-busy={fitting.fitting}>
+        {verdicts?.agreements.map((agreement) => <AgreementVerdict key={agreement.parameter} agreement={agreement} />)}
+        {verdicts?.claimedFit && (
+          <p className="text-sm text-ink-soft">
+            Claimed law with its amplitude fitted: χ²/dof = {formatNumber(verdicts.claimedFit.reducedChi2, 3)}
+            {verdicts.claimedFit.pValue !== null && <>, p-value {formatNumber(verdicts.claimedFit.pValue, 3)}</>}.
+          </p>
+        )}
+      </div>
       <PlotFrame
         title={`${axisLabel(series.y)} against ${axisLabel(series.x)}`}
-        x={{ label: axisLabel(series.x), scale: log ? 'log' : 'linear' }}
-        y={{ label: axisLabel(series.y), scale: log ? 'log' : 'linear' }}
+        x={axes.x}
+        y={axes.y}
         series={drawn}
         height={260}
       />
