@@ -1,13 +1,18 @@
 'use client';
 // A version's text drawn by the editor itself, read-only: the snapshot's bytes become a Y.Doc of
 // this page alone (never connected to the collaboration server), so typeset math and blocks look
-// exactly as in the working copy. Steps can be marked (compare view) by their step ids.
-import { useEffect, useMemo, useState } from 'react';
+// exactly as in the working copy. Steps can be marked (compare view) by their step ids. Given the
+// verdicts stored with the version, the claim blocks show those rather than checking afresh.
+import type { Editor } from '@tiptap/core';
+import { useCallback, useEffect, useMemo, useState } from 'react';
 import { Awareness } from 'y-protocols/awareness';
 import * as Y from 'yjs';
 import { Notice } from '@/components/ui';
 import { DerivationEditor } from '@/editor/DerivationEditor';
 import type { EditorBinding } from '@/editor/extensions';
+import type { LiveChecks } from '@/editor/blocks';
+import type { VersionClaim } from '@/server/versions/types';
+import { StoredEvidenceDrawer, supplyStoredVerdicts } from './StoredEvidence';
 
 export type StepMark = 'changed' | 'added' | 'removed' | 'moved';
 
@@ -19,6 +24,10 @@ export interface SnapshotDocumentProps {
   label: string;
   /** Steps to mark, by step id. */
   marks?: Record<string, StepMark>;
+  /** The verdicts stored with the version: the claim blocks show these (and their evidence). */
+  stored?: readonly VersionClaim[];
+  /** The text's live checks, once the editor is there (for "Check again here" elsewhere on the page). */
+  onLive?: (live: LiveChecks | null) => void;
 }
 
 const uuid = /^[0-9a-f-]{36}$/i;
@@ -35,7 +44,18 @@ function markStyles(scope: string, marks: Record<string, StepMark>): string {
     .join('\n');
 }
 
-export function SnapshotDocument({ snapshotUrl, label, marks }: SnapshotDocumentProps) {
+export function SnapshotDocument({ snapshotUrl, label, marks, stored, onLive }: SnapshotDocumentProps) {
+  const [shown, setShown] = useState<{ editor: Editor; live: LiveChecks } | null>(null);
+  const onReady = useCallback(
+    (editor: Editor) => {
+      if (!stored) return;
+      const live = supplyStoredVerdicts(editor, stored);
+      setShown({ editor, live });
+      onLive?.(live);
+    },
+    [stored, onLive],
+  );
+  useEffect(() => () => onLive?.(null), [onLive]);
   const [state, setState] = useState<{ doc: Y.Doc; awareness: Awareness } | { error: string } | null>(null);
   const scope = useMemo(() => Math.random().toString(36).slice(2), []);
 
@@ -77,7 +97,8 @@ export function SnapshotDocument({ snapshotUrl, label, marks }: SnapshotDocument
   return (
     <div data-snapshot={scope} className="version-document">
       {marks && <style>{markStyles(scope, marks)}</style>}
-      <DerivationEditor binding={binding} editable={false} label={label} />
+      <DerivationEditor binding={binding} editable={false} label={label} onReady={stored ? onReady : undefined} />
+      {stored && shown && <StoredEvidenceDrawer live={shown.live} editor={shown.editor} claims={stored} />}
     </div>
   );
 }

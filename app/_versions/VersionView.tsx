@@ -1,7 +1,8 @@
 'use client';
 // A version read-only: its facts, the lock (hash, exports), the text as the editor draws it, each
 // claim with its stored verdict and evidence, and the figures. Used by members and by share links.
-import type { ReactNode } from 'react';
+import { useState, type ReactNode } from 'react';
+import type { LiveChecks } from '@/editor/blocks';
 import { StatusWord } from '@/components/StatusWord';
 import { PageTitle, When } from '@/components/ui';
 import type { Wire } from '@/app/_lib/wire';
@@ -15,6 +16,7 @@ export function VersionView({ version, filesBase, eyebrow, children }: { version
   const s = version.summary;
   // Claims hold no dates, so their wire form is the stored form exactly (Wire<> would widen tuples).
   const claims = version.checks.claims as unknown as VersionClaim[];
+  const [live, setLive] = useState<LiveChecks | null>(null);
   return (
     <article>
       <PageTitle eyebrow={eyebrow}>{version.derivation.title}</PageTitle>
@@ -46,16 +48,16 @@ export function VersionView({ version, filesBase, eyebrow, children }: { version
       </dl>
       <LockedFacts version={version} filesBase={filesBase} />
       {children}
-      <p className="mt-6 text-sm text-ink-soft">
-        The verdicts in the text are checked again by your browser as you read; the {version.locked ? 'check report' : 'list'} below holds the server’s verdicts
-        stored with this version.
+      <p className="mt-6 text-sm text-ink-soft" data-stored-verdicts-note>
+        The verdicts in the text and in the {version.locked ? 'check report' : 'list'} below are the server’s, stored with this version. A claim’s evidence offers
+        “Check again here” to run it in your browser and see its result beside the stored one; nothing is written.
       </p>
       <section aria-label="Text" className="mt-2">
-        <SnapshotDocument snapshotUrl={`${filesBase}/snapshot`} label={`${version.derivation.title}, version ${version.number}`} />
+        <SnapshotDocument snapshotUrl={`${filesBase}/snapshot`} label={`${version.derivation.title}, version ${version.number}`} stored={claims} onLive={setLive} />
       </section>
       <section className="mt-8">
         <h2 className="mb-2 border-b border-rule pb-1 text-xl">{version.locked ? 'Check report' : 'Claims and their verdicts'}</h2>
-        <ClaimVerdicts claims={claims} />
+        <ClaimVerdicts claims={claims} live={live} />
       </section>
       <Figures claims={claims} />
     </article>

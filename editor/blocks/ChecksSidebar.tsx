@@ -303,7 +303,7 @@ export function ChecksSidebar({ editor, title, canEdit }: { editor: Editor; titl
 }
 
 /** The evidence beside the text, over the right edge of the page; Esc closes it. */
-function EvidenceDrawer({ children, onClose }: { children: ReactNode; onClose: () => void }) {
+export function EvidenceDrawer({ children, onClose }: { children: ReactNode; onClose: () => void }) {
   const box = useRef<HTMLDivElement | null>(null);
   useEffect(() => {
     // Focus moves into the evidence and back to where it came from (the claim's Evidence button) on close.
