@@ -19,6 +19,7 @@ import {
   type PlotArea,
   type ScaleFunction,
 } from 'recharts';
+import { LABEL_LINE, textMeasurer, wrapLabel } from './axisLabel';
 import { decadeLabel, decadeTicks, domainOf, linearAxis, readoutNumber, tickLabel, type Domain } from './axes';
 import { isNavigationKey, nearestPoint, stepPoint, type ActivePoint, type PixelGroups } from './navigation';
 import { downloadText, standaloneSvg, svgFileName } from './svgFile';
@@ -55,6 +56,7 @@ const LINE_LOOKS: Exclude<SeriesLook, 'points'>[] = ['line', 'dashed', 'dotted',
 
 const MARGIN = { top: 12, right: 24, left: 8 };
 const AXIS_BAND = 44;
+const Y_AXIS_WIDTH = 64;
 const LEGEND_ROW = 18;
 /** The pointer reads the nearest point within this many pixels. */
 const REACH = 48;
@@ -244,6 +246,26 @@ function LegendLayer({ rows }: { rows: LegendEntry[][] }) {
   );
 }
 
+/** The y-axis label up the left side, one rotated line per wrapped line, centred on the plot area. */
+function YLabelLayer({ lines, label }: { lines: string[]; label: string }) {
+  const area = usePlotArea();
+  if (!area || lines.length === 0) return null;
+  const cy = area.y + area.height / 2;
+  return (
+    <g data-axis-label="y">
+      <title>{label}</title>
+      {lines.map((line, i) => {
+        const x = MARGIN.left + 13 + i * LABEL_LINE;
+        return (
+          <text key={i} x={x} y={cy} transform={`rotate(-90 ${x} ${cy})`} textAnchor="middle" fill={PLOT_INK}>
+            {line}
+          </text>
+        );
+      })}
+    </g>
+  );
+}
+
 function ActiveLayer({ at }: { at: { x: number; y: number } | null }) {
   const x = useXAxisScale();
   const y = useYAxisScale();
@@ -325,6 +347,13 @@ function PlotFrameDrawing({ title, x, y, series, markers = NO_MARKERS, height = 
   const legend = useMemo(() => drawn.map((d) => ({ name: d.series.name, look: d.look, colour: d.colour })), [drawn]);
   const rows = legendRows(legend, Math.max(120, width - MARGIN.left - MARGIN.right - 64));
   const chartHeight = height + (rows.length ? 8 + rows.length * LEGEND_ROW : 0);
+  // The plot area's height (the chart less its margins and the x-axis band) is the room for the y label.
+  const yRoom = height - MARGIN.top - AXIS_BAND - (rows.length ? 0 : 4) - 8;
+  const measured = width > 0;
+  const yLines = useMemo(
+    () => (measured ? wrapLabel(y.label, yRoom, textMeasurer(box.current ? getComputedStyle(box.current).font : null)) : []),
+    [y.label, yRoom, measured],
+  );
 
   // A change of what is drawn ends the reading of a point that may no longer exist.
   useEffect(() => setActive(null), [groups]);
@@ -449,8 +478,7 @@ function PlotFrameDrawing({ title, x, y, series, markers = NO_MARKERS, height = 
               ticks={yAxis.ticks}
               tickFormatter={logY ? decadeLabel : tickLabel}
               stroke={SOFT}
-              width={64}
-              label={{ value: y.label, angle: -90, position: 'insideLeft', offset: 4, fill: PLOT_INK }}
+              width={Y_AXIS_WIDTH + Math.max(0, yLines.length - 1) * LABEL_LINE}
             />
             {drawn
               .filter((d) => d.look === 'points')
@@ -468,6 +496,7 @@ function PlotFrameDrawing({ title, x, y, series, markers = NO_MARKERS, height = 
               ))}
             <CurveLayer drawn={drawn} clipId={clipId} />
             <MarkerLayer markers={shownMarkers} />
+            <YLabelLayer lines={yLines} label={y.label} />
             <LegendLayer rows={rows} />
             <ActiveLayer at={activePoint} />
             <ScaleReporter onScales={onScales} />

@@ -76,3 +76,22 @@ test('a new setting keeps the last fit on screen, faded, until the worker answer
   await expect.poll(() => agreement.getAttribute('data-verdict'), { timeout: 90_000 }).toBe('agrees');
   expect(await agreement.textContent()).toMatch(/The data agree with p = 0\.25/);
 });
+
+test('a y-axis label longer than the plot is tall is wrapped and shown whole inside the frame', async () => {
+  await page.goto(`${vite.resolvedUrls!.local[0]!}?rows=200&y=${encodeURIComponent('mean-square end-to-end distance of the walk, averaged over every sample')}`);
+  const frame = page.getByTestId('plot-frame');
+  const label = frame.locator('[data-axis-label="y"] text');
+  await expect.poll(() => label.count(), { timeout: 60_000 }).toBeGreaterThan(1);
+  expect((await label.allTextContents()).join(' ')).toBe('mean-square end-to-end distance of the walk, averaged over every sample');
+  const chart = (await frame.locator('svg.recharts-surface').first().boundingBox())!;
+  const ticks = await frame.locator('.recharts-yAxis .recharts-cartesian-axis-tick-value').evaluateAll((nodes) => nodes.map((n) => n.getBoundingClientRect().left));
+  for (const line of await label.all()) {
+    const box = (await line.boundingBox())!;
+    expect(box.y).toBeGreaterThanOrEqual(chart.y);
+    expect(box.y + box.height).toBeLessThanOrEqual(chart.y + chart.height);
+    expect(box.x).toBeGreaterThanOrEqual(chart.x);
+    // Left of every tick value: the lines do not run into the axis' numbers.
+    expect(box.x + box.width).toBeLessThanOrEqual(Math.min(...ticks));
+  }
+  await page.screenshot({ path: path.join(repoRoot, 'tests/.artifacts/plot-long-y-label.png') });
+});
