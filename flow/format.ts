@@ -104,6 +104,8 @@ export function formatConcise(value: number, uncertainty: number): string {
 export interface MessagePart {
   text: string;
   exponent: boolean;
+  /** For an exponent, what the message writes around it ("^", "^(" and ")"): a view keeps these unseen, so the text stays exact. */
+  around?: [string, string];
 }
 
 // After a caret: a signed decimal number (3, -1, 3.01, 1.5e-3), a name (k, eps), or a group in
@@ -112,7 +114,7 @@ const EXPONENT = /\^(?:\(([^()]*)\)|\{([^{}]*)\}|([-+−]?\d+(?:\.\d+)?(?:e[-+]?
 
 /**
  * A message with its exponents marked, so "the residual scales as eps^3.01" shows 3.01 raised
- * as a whole. The caret itself is dropped; minus signs in exponents become the minus sign.
+ * as a whole. The parts keep every character but the caret, so a view can keep the text exact.
  */
 export function messageParts(message: string): MessagePart[] {
   const parts: MessagePart[] = [];
@@ -121,7 +123,11 @@ export function messageParts(message: string): MessagePart[] {
     const exponent = (match[1] ?? match[2] ?? match[3] ?? '').trim();
     if (exponent === '') continue;
     if (match.index > last) parts.push({ text: message.slice(last, match.index), exponent: false });
-    parts.push({ text: exponent.replace(/^-|(?<=e)-/g, '−'), exponent: true });
+    const opened = match[1] !== undefined ? '(' : match[2] !== undefined ? '{' : '';
+    const raw = match[1] ?? match[2] ?? match[3] ?? '';
+    const lead = raw.slice(0, raw.length - raw.trimStart().length);
+    const trail = raw.slice(raw.trimEnd().length);
+    parts.push({ text: exponent, exponent: true, around: [`^${opened}${lead}`, `${trail}${opened === '(' ? ')' : opened === '{' ? '}' : ''}`] });
     last = match.index + match[0].length;
   }
   if (last < message.length) parts.push({ text: message.slice(last), exponent: false });

@@ -13,8 +13,9 @@ export function MessageText({ message }: { message: string }) {
       {messageParts(message).map((part, i) =>
         part.exponent ? (
           <span key={i}>
-            <span style={unseen}>^</span>
+            <span style={unseen}>{part.around?.[0] ?? '^'}</span>
             <sup>{part.text}</sup>
+            {part.around?.[1] ? <span style={unseen}>{part.around[1]}</span> : null}
           </span>
         ) : (
           <span key={i}>{part.text}</span>
@@ -32,12 +33,16 @@ export function fillMessage(target: HTMLElement, message: string): void {
       nodes.push(document.createTextNode(part.text));
       continue;
     }
-    const caret = document.createElement('span');
-    caret.setAttribute('style', unseenText);
-    caret.textContent = '^';
+    const hidden = (text: string) => {
+      const span = document.createElement('span');
+      span.setAttribute('style', unseenText);
+      span.textContent = text;
+      return span;
+    };
     const sup = document.createElement('sup');
     sup.textContent = part.text;
-    nodes.push(caret, sup);
+    nodes.push(hidden(part.around?.[0] ?? '^'), sup);
+    if (part.around?.[1]) nodes.push(hidden(part.around[1]));
   }
   target.replaceChildren(...nodes);
 }

@@ -10,6 +10,9 @@ describe('a verdict message in the evidence panel', () => {
     expect(html).not.toMatch(/<sup>3<\/sup>\.01/);
     // What a reader copies is what the solver wrote.
     expect(html.replace(/<[^>]+>/g, '')).toBe('the residual scales as eps^3.01, expected eps^3');
+    const grouped = renderToStaticMarkup(<MessageText message="O(x^(k+1)) remains" />);
+    expect(grouped).toContain('<sup>k+1</sup>');
+    expect(grouped.replace(/<[^>]+>/g, '')).toBe('O(x^(k+1)) remains');
   });
 
   it('escapes what it shows: a message is text, never markup', () => {

@@ -52,21 +52,25 @@ describe('exponents in messages are raised whole', () => {
   it('"the residual scales as eps^3.01" raises 3.01, not 3 followed by .01', () => {
     expect(messageParts('the residual scales as eps^3.01, expected eps^3')).toEqual([
       { text: 'the residual scales as eps', exponent: false },
-      { text: '3.01', exponent: true },
+      { text: '3.01', exponent: true, around: ['^', ''] },
       { text: ', expected eps', exponent: false },
-      { text: '3', exponent: true },
+      { text: '3', exponent: true, around: ['^', ''] },
     ]);
   });
 
   it('raises signed numbers, names and groups, and leaves a full stop after a number in the text', () => {
     const raised = (message: string) => messageParts(message).filter((p) => p.exponent).map((p) => p.text);
-    expect(raised('falls like x^-1.5 and x^k, O(x^(k+1)) and t^{0.25}.')).toEqual(['−1.5', 'k', 'k+1', '0.25']);
+    expect(raised('falls like x^-1.5 and x^k, O(x^(k+1)) and t^{0.25}.')).toEqual(['-1.5', 'k', 'k+1', '0.25']);
     expect(messageParts('the difference is O(x^2).')).toEqual([
       { text: 'the difference is O(x', exponent: false },
-      { text: '2', exponent: true },
+      { text: '2', exponent: true, around: ['^', ''] },
       { text: ').', exponent: false },
     ]);
     expect(raised('it grows like l^3. Then it stops')).toEqual(['3']);
+    // Every character but the raised text is kept around it, so the message can be rebuilt exactly.
+    for (const message of ['O(x^(k+1)) and t^{ 0.25 }', 'x^-1.5, eps^3.01.']) {
+      expect(messageParts(message).map((p) => (p.exponent ? `${p.around![0]}${p.text}${p.around![1]}` : p.text)).join('')).toBe(message);
+    }
     expect(messageParts('no exponent here: a ^ b')).toEqual([{ text: 'no exponent here: a ^ b', exponent: false }]);
   });
 });
