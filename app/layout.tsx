@@ -47,7 +47,7 @@ export default async function RootLayout({ children }: { children: ReactNode }) 
                 <span className="text-ink-soft" aria-label="Signed in as">
                   {user.name}
                 </span>
-                <SignOutButton />
+                <SignOutButton userId={user.id} />
               </>
             ) : (
               <>

@@ -7,6 +7,7 @@ import { IndexeddbPersistence } from 'y-indexeddb';
 import { WebsocketProvider } from 'y-websocket';
 import * as Y from 'yjs';
 import type { ConnectionPhase } from '@/components/ConnectionState';
+import { deviceCopyName, registerOpenCopy } from '@/app/_lib/deviceCopies';
 import { presenceColour, type PresenceUser } from '@/editor/presence';
 import { closeCodes, closeMessages, isFinalClose, type CloseCode } from '@/server/collab/closeReasons';
 
@@ -47,7 +48,10 @@ export function useCollabSession({ derivationId, user, onRoleChanged }: Options)
   useEffect(() => {
     const doc = new Y.Doc();
     const presenceUser: PresenceUser = { id: user.id, name: user.name, role: user.role, color: presenceColour(user.id) };
-    const local = new IndexeddbPersistence(`marginalia:${user.id}:${derivationId}`, doc);
+    const copyName = deviceCopyName(user.id, derivationId);
+    const local = new IndexeddbPersistence(copyName, doc);
+    // Sign-out asks open pages for their document: it may hold a keystroke not yet in the database.
+    const unregisterCopy = registerOpenCopy(copyName, doc);
     const socketUrl = `${window.location.protocol === 'https:' ? 'wss' : 'ws'}://${window.location.host}/collab`;
     const provider = new WebsocketProvider(socketUrl, derivationId, doc, {
       shouldReconnect: (event) => !isFinalClose(event.code),
@@ -134,6 +138,7 @@ export function useCollabSession({ derivationId, user, onRoleChanged }: Options)
 
     return () => {
       disposed = true;
+      unregisterCopy();
       window.clearTimeout(timer);
       window.removeEventListener('online', onNetworkChange);
       window.removeEventListener('offline', onNetworkChange);
