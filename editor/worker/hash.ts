@@ -1,17 +1,7 @@
 // A stable fingerprint of plain data: JSON with sorted keys, hashed to 106 bits (two 53-bit
 // halves). Used as the key of cached check results: the same claim and flow give the same key.
 
-/** JSON with object keys in sorted order, so equal inputs give equal text. */
-export function stableJson(value: unknown): string {
-  if (Array.isArray(value)) return `[${value.map(stableJson).join(',')}]`;
-  if (value && typeof value === 'object') {
-    const entries = Object.entries(value as Record<string, unknown>)
-      .filter(([, v]) => v !== undefined)
-      .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
-    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${stableJson(v)}`).join(',')}}`;
-  }
-  return JSON.stringify(value) ?? 'null';
-}
+import { stableJson } from '@/flow/stableJson';
 
 /** 53 bits of a string (cyrb53: two multiplicative 32-bit lanes mixed at the end). */
 function hash53(text: string, start: number): number {

@@ -5,6 +5,7 @@
 import { createHash } from 'node:crypto';
 import { describeInDocument, problemResult, type DocumentReading } from '../../flow/document';
 import type { ClaimFile, ClaimResult, Status } from '../../flow/types';
+import { stableJson } from '../../flow/stableJson';
 
 /** Bumped when the solver's verdicts may change for the same input, so stored results are redone. */
 const FINGERPRINT_REVISION = 'checks-1';
@@ -46,17 +47,6 @@ export interface CheckPlan {
   known: Map<string, ClaimResult>;
 }
 
-/** JSON with object keys in sorted order, so equal inputs give equal fingerprints. */
-function stableJson(value: unknown): string {
-  if (Array.isArray(value)) return `[${value.map(stableJson).join(',')}]`;
-  if (value && typeof value === 'object') {
-    const entries = Object.entries(value as Record<string, unknown>)
-      .filter(([, v]) => v !== undefined)
-      .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
-    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${stableJson(v)}`).join(',')}}`;
-  }
-  return JSON.stringify(value) ?? 'null';
-}
 
 export function fingerprint(value: unknown): string {
   return createHash('sha256').update(FINGERPRINT_REVISION).update(stableJson(value)).digest('hex');

@@ -4,6 +4,7 @@
 // changes either clears it.
 import { createHash } from 'node:crypto';
 import { CLAIM_BLOCK, CLAIM_FLOW, FLOW_BLOCK, KIND_LABELS, NO_FLOW, STEP_ID, isClaimKind, readDocument, type DocNode } from '../../flow/document';
+import { stableJson } from '../../flow/stableJson';
 
 export interface StepInfo {
   stepId: string;
@@ -21,17 +22,6 @@ export interface StepInfo {
 const HASH_PREFIX = 'marginalia-step-1\n';
 const EXCERPT_LENGTH = 160;
 
-/** JSON with object keys sorted, so equal content gives equal bytes whatever the attribute order. */
-function stableJson(value: unknown): string {
-  if (Array.isArray(value)) return `[${value.map(stableJson).join(',')}]`;
-  if (value && typeof value === 'object') {
-    const entries = Object.entries(value as Record<string, unknown>)
-      .filter(([, v]) => v !== undefined)
-      .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
-    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${stableJson(v)}`).join(',')}}`;
-  }
-  return JSON.stringify(value) ?? 'null';
-}
 
 /** SHA-256 (hex) of a block as stored: its type, attributes, text and marks. */
 export function hashBlock(node: DocNode): string {

@@ -5,21 +5,13 @@ import { createHash } from 'node:crypto';
 import { yXmlFragmentToProsemirrorJSON } from '@tiptap/y-tiptap';
 import * as Y from 'yjs';
 import type { DocNode } from '../../flow/document';
+import { stableJson } from '../../flow/stableJson';
 
 /** The editor's XmlFragment of a derivation's Y.Doc (server/collab binds the same one). */
 export const BODY_FIELD = 'body';
 
-/** JSON with object keys in sorted order and no spaces, so equal content gives equal text. */
-export function canonicalJson(value: unknown): string {
-  if (Array.isArray(value)) return `[${value.map(canonicalJson).join(',')}]`;
-  if (value && typeof value === 'object') {
-    const entries = Object.entries(value as Record<string, unknown>)
-      .filter(([, v]) => v !== undefined)
-      .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
-    return `{${entries.map(([k, v]) => `${JSON.stringify(k)}:${canonicalJson(v)}`).join(',')}}`;
-  }
-  return JSON.stringify(value) ?? 'null';
-}
+/** JSON with object keys in sorted order and no spaces (flow/stableJson.ts), so equal content gives equal text. */
+export const canonicalJson = stableJson;
 
 export function sha256Hex(data: string | Uint8Array): string {
   return createHash('sha256').update(data).digest('hex');
