@@ -1,27 +1,5 @@
 // Line icons of review, drawn like components/icons.tsx (decorative: a word always stands beside).
-import type { SVGProps } from 'react';
-
-type IconProps = SVGProps<SVGSVGElement>;
-
-function Icon({ children, ...props }: IconProps) {
-  return (
-    <svg
-      viewBox="0 0 16 16"
-      width="1em"
-      height="1em"
-      fill="none"
-      stroke="currentColor"
-      strokeWidth={1.6}
-      strokeLinecap="round"
-      strokeLinejoin="round"
-      aria-hidden="true"
-      focusable="false"
-      {...props}
-    >
-      {children}
-    </svg>
-  );
-}
+import { Icon, type IconProps } from '../icons';
 
 /** A sign-off: a tick beneath a short rule, like a mark in a margin. */
 export const CheckedIcon = (p: IconProps) => (
