@@ -9,6 +9,7 @@ import { type CompiledModel, compileModel, evaluateFlowParameters } from './mode
 import { generator, hashString } from './numerics/random';
 import { REGISTRY, type RegistryEntry } from './registry';
 import { marginalSignFlag } from './sanity';
+import { uncheckedResult } from './uncheckedResult';
 import type {
   CheckContext,
   CheckOutcome,
@@ -63,24 +64,6 @@ function prepareFlow(spec: FlowSpec): FlowState {
   return state;
 }
 
-function emptyResult(id: string, kind: string, status: ClaimResult['status'], message: string): ClaimResult {
-  return {
-    id,
-    kind,
-    status,
-    measured: null,
-    uncertainty: null,
-    expected: null,
-    tolerance: null,
-    message,
-    method: 'none',
-    settings: {},
-    stats: {},
-    ms: 0,
-    sanity: [],
-    evidence: {},
-  };
-}
 
 function claimSettingsReader(claim: Claim, index: number) {
   return <T extends Record<string, number>>(defaults: T): T => {
@@ -138,7 +121,7 @@ function flowSanity(state: FlowState, claim: Claim): SanityFlag[] {
 
 function runOne(raw: unknown, index: number, state: FlowState, options: CheckOptions): ClaimResult {
   const parsed = parseClaim(raw, index);
-  if (!parsed.ok) return emptyResult(parsed.id, parsed.kind, 'invalid', parsed.errors.map((e) => e.message).join('; '));
+  if (!parsed.ok) return uncheckedResult(parsed.id, parsed.kind, 'invalid', parsed.errors.map((e) => e.message).join('; '));
   const claim = parsed.claim;
   const started = clock();
   const limit = options.timeLimitMs ?? DEFAULT_TIME_LIMIT_MS;
@@ -221,14 +204,14 @@ function plan(file: ClaimFile, options: CheckOptions) {
     const duplicate = duplicates.get(index);
     if (duplicate) {
       const raw = file.claims[index] as { id: string; kind?: unknown };
-      return emptyResult(raw.id, typeof raw.kind === 'string' ? raw.kind : '', 'invalid', duplicate);
+      return uncheckedResult(raw.id, typeof raw.kind === 'string' ? raw.kind : '', 'invalid', duplicate);
     }
     return runOne(file.claims[index], index, state, options);
   };
   const cancelledAt = (index: number): ClaimResult => {
     const raw = file.claims[index] as { id?: unknown; kind?: unknown } | null;
     const id = typeof raw?.id === 'string' ? raw.id : `claims[${index}]`;
-    return emptyResult(id, typeof raw?.kind === 'string' ? raw.kind : '', 'inconclusive', 'cancelled before it ran');
+    return uncheckedResult(id, typeof raw?.kind === 'string' ? raw.kind : '', 'inconclusive', 'cancelled before it ran');
   };
   return { indices, runAt, cancelledAt };
 }

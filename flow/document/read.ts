@@ -1,6 +1,7 @@
 // Reading a document: every flow and claim block, with its problems, and the claim files to check.
 import { CLAIM_KINDS, type ClaimFile, type ClaimKind, type ClaimResult, type Convention, type FlowSpec, type ValueInput } from '../types';
 import { BLOCK_FIELD, BLOCK_ROW, CLAIM_BLOCK, CLAIM_FLOW, FLOW_BLOCK, FLOW_KINDS, KIND_LABELS, NO_FLOW, STEP_ID, claimFields, isClaimKind, type DocNode, type RowKind } from './layout';
+import { uncheckedResult } from '../uncheckedResult';
 import { FieldSyntaxError, NAME, fieldValue, parseChoice, parseNames, valueFromText } from './syntax';
 
 
@@ -303,22 +304,7 @@ export function readDocument(doc: DocNode | readonly DocNode[]): DocumentReading
 
 /** The result shown for a claim block that cannot be checked as written (status invalid input). */
 export function problemResult(reading: ClaimReading): ClaimResult {
-  return {
-    id: reading.id,
-    kind: reading.kind ?? '',
-    status: 'invalid',
-    measured: null,
-    uncertainty: null,
-    expected: null,
-    tolerance: null,
-    message: reading.problems.map((p) => p.message).join('; '),
-    method: 'none',
-    settings: {},
-    stats: {},
-    ms: 0,
-    sanity: [],
-    evidence: {},
-  };
+  return uncheckedResult(reading.id, reading.kind ?? '', 'invalid', reading.problems.map((p) => p.message).join('; '));
 }
 
 /**

@@ -6,6 +6,7 @@
 // run lead to another run.
 import { readDocument, type DocumentReading } from '../../flow/document';
 import type { ClaimResult } from '../../flow/types';
+import { uncheckedResult } from '../../flow/uncheckedResult';
 import type { CollabAccess, DocumentChange } from '../collab/access';
 import type { DocNode } from '../../flow/document';
 import type { ChecksAccess, DocumentCheck, VerdictChange, VerdictsChanged } from './access';
@@ -31,22 +32,7 @@ interface Slot {
 
 /** A claim the thread could not finish: inconclusive, and checked again next time. */
 function stoppedResult(id: string, kind: string, reason: string): ClaimResult {
-  return {
-    id,
-    kind,
-    status: 'inconclusive',
-    measured: null,
-    uncertainty: null,
-    expected: null,
-    tolerance: null,
-    message: reason,
-    method: 'stopped',
-    settings: {},
-    stats: {},
-    ms: 0,
-    sanity: [],
-    evidence: {},
-  };
+  return uncheckedResult(id, kind, 'inconclusive', reason, 'stopped');
 }
 
 export class CheckScheduler implements ChecksAccess {
