@@ -3,7 +3,8 @@
 import * as Y from 'yjs';
 import { BLOCK_FIELD, CLAIM_BLOCK, type DocNode } from '../../flow/document';
 
-function toY(node: DocNode): Y.XmlElement | Y.XmlText {
+/** A block as the editor stores it in Yjs (text without marks is all these tests write). */
+export function toY(node: DocNode): Y.XmlElement | Y.XmlText {
   if (node.type === 'text') {
     const text = new Y.XmlText();
     text.insert(0, node.text ?? '');

@@ -20,6 +20,7 @@ import {
   type DemoSessions,
   type StartedServer,
 } from '../helpers';
+import { generator } from '../../flow/numerics/random'; // a fixed random start, so a failing run can be repeated
 import { closeCodes, closeMessages } from '../../server/collab/closeReasons';
 import { connectClient, eventually, nextClose, upgradeStatus, type CollabClient } from './collabClients';
 
@@ -68,18 +69,6 @@ function firstLine(doc: Y.Doc): Y.XmlText {
 
 function bodyText(doc: Y.Doc): string {
   return doc.getXmlFragment('body').toString();
-}
-
-/** mulberry32: a small generator with a fixed random start, so a failing run can be repeated. */
-function generator(start: number): () => number {
-  let state = start >>> 0;
-  return () => {
-    state = (state + 0x6d2b79f5) >>> 0;
-    let t = state;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
 }
 
 const pause = (ms: number) => new Promise((resolve) => setTimeout(resolve, ms));

@@ -3,24 +3,10 @@
 import { randomUUID } from 'node:crypto';
 import * as Y from 'yjs';
 import type { DocNode } from '../../flow/document';
+import { toY } from './checksDocument';
 
 export function body(doc: Y.Doc): Y.XmlFragment {
   return doc.getXmlFragment('body');
-}
-
-function toY(node: DocNode): Y.XmlElement | Y.XmlText {
-  if (node.type === 'text') {
-    const text = new Y.XmlText();
-    text.insert(0, node.text ?? '');
-    return text;
-  }
-  const element = new Y.XmlElement(node.type);
-  for (const [key, value] of Object.entries(node.attrs ?? {})) {
-    if (value !== null && value !== undefined) element.setAttribute(key, value as string);
-  }
-  const children = (node.content ?? []).map(toY);
-  if (children.length > 0) element.insert(0, children);
-  return element;
 }
 
 /** A paragraph step with a fresh stepId. */
