@@ -56,7 +56,7 @@ async function serverText(derivationId: string): Promise<string> {
 
 async function signedOut(page: Page): Promise<void> {
   await page.waitForURL((url) => url.pathname === '/', { timeout: 30_000 });
-  await page.getByRole('link', { name: 'Sign in' }).waitFor();
+  await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Sign in' }).waitFor();
 }
 
 describe('signing out clears the copies on this device without losing an edit', () => {
