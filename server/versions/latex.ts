@@ -5,6 +5,7 @@
 // versions) and the SHA-256 with how to compute it again.
 import { parse } from 'mathjs';
 import { BLOCK_FIELD, BLOCK_ROW, CLAIM_BLOCK, FLOW_BLOCK, claimFields, isClaimKind, type DocNode } from '../../flow/document';
+import { messageParts } from '../../flow/format';
 import type { ClaimResult, Measured, Status } from '../../flow/types';
 import { LOCK_HASH_FORMAT } from './hash';
 import type { CheckReport } from './report';
@@ -33,6 +34,13 @@ const UNICODE: Record<string, string> = {
   '×': '\\ensuremath{\\times}', '±': '\\ensuremath{\\pm}', '−': '\\ensuremath{-}', '∞': '\\ensuremath{\\infty}', '∼': '\\ensuremath{\\sim}',
   '·': '\\ensuremath{\\cdot}', '’': "'", '‘': '`', '“': '``', '”': "''", '–': '--', '—': '---', '…': '\\ldots{}', '\u00a0': '~',
 };
+
+/** A verdict message for LaTeX: its exponents raised whole (eps^3.01 as eps\textsuperscript{3.01}), the rest escaped. */
+export function messageLatex(message: string): string {
+  return messageParts(message)
+    .map((part) => (part.exponent ? `\\textsuperscript{${escapeLatex(part.text)}}` : escapeLatex(part.text)))
+    .join('');
+}
 
 /** Text for LaTeX: specials escaped; characters outside the text fonts as math or a code point. */
 export function escapeLatex(text: string): string {
@@ -140,7 +148,7 @@ function claimBlock(node: DocNode, result: ClaimResult | undefined): string {
     rows.push(`${escapeLatex(labels.get(key) ?? key)} & ${key === 'note' ? escapeLatex(value) : expressionTex(value)} \\\\`);
   }
   if (rows.length > 0) lines.push(`\\begin{tabular}{@{}p{0.28\\linewidth}p{0.68\\linewidth}@{}}\n${rows.join('\n')}\n\\end{tabular}`);
-  if (result?.message) lines.push(`\\par\\noindent\\emph{Check:} ${escapeLatex(result.message)} (see appendix, claim \\ref{claim:${labelOf(result.id)}}).`);
+  if (result?.message) lines.push(`\\par\\noindent\\emph{Check:} ${messageLatex(result.message)} (see appendix, claim \\ref{claim:${labelOf(result.id)}}).`);
   return lines.join('\n');
 }
 
@@ -208,7 +216,7 @@ function appendix(report: CheckReport, sha256: string): string {
     [
       `\\subsection*{Claim \\texttt{${escapeLatex(c.id)}}}\\label{claim:${labelOf(c.id)}}`,
       `\\begin{description}`,
-      `\\item[Verdict] ${VERDICT_MACRO[c.status]} ${escapeLatex(c.result.message)}`,
+      `\\item[Verdict] ${VERDICT_MACRO[c.status]} ${messageLatex(c.result.message)}`,
       `\\item[Method] ${escapeLatex(c.result.method)}`,
       `\\item[Solver settings] ${escapeLatex(settingsText(c.result.settings))}`,
       `\\item[Statistics] ${escapeLatex(settingsText(c.result.stats))}; ${escapeLatex(number(c.result.ms))} ms`,

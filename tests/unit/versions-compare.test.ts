@@ -3,7 +3,7 @@
 import { describe, expect, test } from 'vitest';
 import type { DocNode } from '../../flow/document';
 import { compareBodies } from '../../server/versions/compare';
-import { escapeLatex } from '../../server/versions/latex';
+import { escapeLatex, messageLatex } from '../../server/versions/latex';
 
 const paragraph = (stepId: string, text: string): DocNode => ({ type: 'paragraph', attrs: { stepId }, content: [{ type: 'text', text }] });
 const side = (content: DocNode[], verdicts: [string, string, 'holds' | 'fails'][] = []) => ({
@@ -38,5 +38,10 @@ describe('text in the LaTeX article', () => {
     expect(escapeLatex('a_b & 50% #1 {x} ~y^2 \\ $5')).toBe('a\\_b \\& 50\\% \\#1 \\{x\\} \\textasciitilde{}y\\textasciicircum{}2 \\textbackslash{} \\$5');
     expect(escapeLatex('ε → 0, Wilson–Fisher, naïve')).toBe('\\ensuremath{\\varepsilon} \\ensuremath{\\to} 0, Wilson--Fisher, naïve');
     expect(escapeLatex('中')).toBe('\\texttt{U+4E2D}');
+  });
+
+  test('a verdict message raises its exponents whole', () => {
+    expect(messageLatex('the residual scales as eps^3.01, expected eps^3')).toBe('the residual scales as eps\\textsuperscript{3.01}, expected eps\\textsuperscript{3}');
+    expect(messageLatex('O(x^(k+1)) at 50%')).toBe('O(x\\textsuperscript{k+1}) at 50\\%');
   });
 });
