@@ -6,7 +6,7 @@ import { derivative as mathDerivative } from 'mathjs';
 import { ExpressionError } from '../errors';
 import { BoundedCache } from './cache';
 import { nodeToTerm, parseNode } from './parse';
-import { type Term, add, sub, mul, div, pow, neg, num, termSize, toMathString } from './term';
+import { type Term, binary, neg, num, termSize, toMathString } from './term';
 
 /** Beyond this many nodes a derivative is refused (repeated product rules grow exponentially). */
 const MAX_DERIVATIVE_SIZE = 20_000;
@@ -34,18 +34,7 @@ export function fold(term: Term): Term {
         else if (term.op === '^' && b.v >= 0 && b.v <= 64) value = Math.pow(a.v, b.v);
         if (value !== undefined && isSafeInteger(value)) return num(value);
       }
-      switch (term.op) {
-        case '+':
-          return add(a, b);
-        case '-':
-          return sub(a, b);
-        case '*':
-          return mul(a, b);
-        case '/':
-          return div(a, b);
-        default:
-          return pow(a, b);
-      }
+      return binary(term.op, a, b);
     }
     default:
       return term;

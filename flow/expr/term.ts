@@ -94,25 +94,28 @@ export function dependsOn(term: Term, names: ReadonlySet<string>): boolean {
 }
 
 /** Replace symbols by terms (symbols not in the map stay). */
+/** The operation `op` of a and b through its builder above (which folds what it can). */
+export function binary(op: BinaryOp, a: Term, b: Term): Term {
+  switch (op) {
+    case '+':
+      return add(a, b);
+    case '-':
+      return sub(a, b);
+    case '*':
+      return mul(a, b);
+    case '/':
+      return div(a, b);
+    default:
+      return pow(a, b);
+  }
+}
+
 export function substitute(term: Term, replace: ReadonlyMap<string, Term>): Term {
   switch (term.t) {
     case 'sym':
       return replace.get(term.name) ?? term;
     case 'op': {
-      const a = substitute(term.a, replace);
-      const b = substitute(term.b, replace);
-      switch (term.op) {
-        case '+':
-          return add(a, b);
-        case '-':
-          return sub(a, b);
-        case '*':
-          return mul(a, b);
-        case '/':
-          return div(a, b);
-        default:
-          return pow(a, b);
-      }
+      return binary(term.op, substitute(term.a, replace), substitute(term.b, replace));
     }
     case 'neg':
       return neg(substitute(term.a, replace));
