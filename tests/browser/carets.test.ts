@@ -2,7 +2,7 @@
 // member sees both carets, each with its name, and neither name covers the other.
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, test } from 'vitest';
-import { demoAccount, demoSessions, launchBrowser, startServer, type DemoSessions, type StartedServer } from '../helpers';
+import { demoAccount, demoSessions, launchBrowser, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
 
 let server: StartedServer;
 let browser: Browser;
@@ -22,10 +22,8 @@ afterAll(async () => {
 });
 
 async function openAs(cookie: string, derivationId: string): Promise<Page> {
-  const context = await browser.newContext();
+  const context = await signedInContext(browser, server.url, cookie);
   contexts.push(context);
-  const [name, value] = cookie.split(/=(.*)/s) as [string, string];
-  await context.addCookies([{ name, value, url: server.url }]);
   const page = await context.newPage();
   await page.goto(`${server.url}/derivations/${derivationId}`);
   await page.locator('[data-connection="connected"]').waitFor();

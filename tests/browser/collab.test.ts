@@ -16,6 +16,7 @@ import {
   linkIn,
   readMailbox,
   registerAndSignIn,
+  signedInContext,
   startServer,
   waitForMail,
   type DemoSessions,
@@ -47,10 +48,8 @@ function start(): Promise<StartedServer> {
 }
 
 async function signedInPage(cookie: string): Promise<Page> {
-  const context = await browser.newContext();
+  const context = await signedInContext(browser, server.url, cookie);
   contexts.push(context);
-  const [name, value] = cookie.split(/=(.*)/s) as [string, string];
-  await context.addCookies([{ name, value, url: server.url }]);
   return context.newPage();
 }
 

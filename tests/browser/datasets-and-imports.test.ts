@@ -9,7 +9,7 @@ import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, test } from 'vitest';
 import { yXmlFragmentToProsemirrorJSON } from '@tiptap/y-tiptap';
 import { demoDatasetName } from '../../db/demoDataset';
-import { api, demoSessions, launchBrowser, repoRoot, startServer, type DemoSessions, type StartedServer } from '../helpers';
+import { api, demoSessions, launchBrowser, repoRoot, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
 import { connectClient } from '../integration/collabClients';
 import { generator } from '../../flow/numerics/random';
 
@@ -36,10 +36,7 @@ beforeAll(async () => {
   server = await startServer({ demo: true });
   demo = await demoSessions(server.url);
   browser = await launchBrowser();
-  const context = await browser.newContext();
-  const [name, value] = demo.cookies.author.split(/=(.*)/s) as [string, string];
-  await context.addCookies([{ name, value, url: server.url }]);
-  page = await context.newPage();
+  page = await (await signedInContext(browser, server.url, demo.cookies.author)).newPage();
 });
 
 afterAll(async () => {

@@ -7,7 +7,7 @@ import { randomUUID } from 'node:crypto';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, test } from 'vitest';
 import { claimBlockNode, flowBlockNode } from '../../flow/document';
-import { demoAccount, demoSessions, launchBrowser, linkIn, readMailbox, startServer, waitForMail, type DemoSessions, type StartedServer } from '../helpers';
+import { demoAccount, demoSessions, launchBrowser, linkIn, readMailbox, signedInContext, startServer, waitForMail, type DemoSessions, type StartedServer } from '../helpers';
 import { connectClient, type CollabClient } from '../integration/collabClients';
 import { appendSteps, paragraph, setField, withStepId } from '../integration/reviewDocuments';
 
@@ -31,10 +31,8 @@ afterAll(async () => {
 });
 
 async function signedInPage(cookie: string): Promise<Page> {
-  const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+  const context = await signedInContext(browser, server.url, cookie, { viewport: { width: 1280, height: 900 } });
   contexts.push(context);
-  const [name, value] = cookie.split(/=(.*)/s) as [string, string];
-  await context.addCookies([{ name, value, url: server.url }]);
   return context.newPage();
 }
 

@@ -7,7 +7,7 @@
 // + O(eps^3), here at n = 0.
 import type { Browser, BrowserContext, Locator, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
-import { demoSessions, launchBrowser, startServer, type DemoSessions, type StartedServer } from '../helpers';
+import { demoSessions, launchBrowser, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
 
 let server: StartedServer;
 let browser: Browser;
@@ -39,10 +39,8 @@ afterAll(async () => {
 });
 
 async function signedInPage(cookie: string): Promise<Page> {
-  const context = await browser.newContext({ viewport: { width: 1300, height: 1100 }, acceptDownloads: true });
+  const context = await signedInContext(browser, server.url, cookie, { viewport: { width: 1300, height: 1100 }, acceptDownloads: true });
   contexts.push(context);
-  const [name, value] = cookie.split(/=(.*)/s) as [string, string];
-  await context.addCookies([{ name, value, url: server.url }]);
   const page = await context.newPage();
   await page.goto(`${server.url}/derivations/${derivationId}`);
   await page.locator('[data-connection="connected"]').waitFor();

@@ -11,7 +11,7 @@
 import { readFile } from 'node:fs/promises';
 import type { Browser, BrowserContext, Locator, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
-import { demoSessions, launchBrowser, startServer, type DemoSessions, type StartedServer } from '../helpers';
+import { demoSessions, launchBrowser, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
 
 let server: StartedServer;
 let browser: Browser;
@@ -51,10 +51,8 @@ afterAll(async () => {
 });
 
 async function signedInPage(cookie: string): Promise<Page> {
-  const context = await browser.newContext({ viewport: { width: 1300, height: 1000 }, acceptDownloads: true });
+  const context = await signedInContext(browser, server.url, cookie, { viewport: { width: 1300, height: 1000 }, acceptDownloads: true });
   contexts.push(context);
-  const [name, value] = cookie.split(/=(.*)/s) as [string, string];
-  await context.addCookies([{ name, value, url: server.url }]);
   return context.newPage();
 }
 

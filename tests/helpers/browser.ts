@@ -1,7 +1,7 @@
 // Debian's Chromium driven by playwright-core. Playwright gives every launch a fresh, temporary
 // profile folder (the equivalent of a fresh --user-data-dir), removed when the browser closes.
 import { existsSync } from 'node:fs';
-import { chromium, type Browser } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type BrowserContextOptions } from 'playwright-core';
 
 export const chromiumPath = '/usr/bin/chromium';
 
@@ -20,4 +20,12 @@ export async function launchBrowser(): Promise<Browser> {
     throw new Error(`${chromiumPath} is missing: install it with \`apt-get install -y chromium\`.`);
   }
   return chromium.launch({ executablePath: chromiumPath, headless: true, args: chromiumFlags });
+}
+
+/** A fresh browser context signed in with `cookie` (the Cookie header value from signIn) for the server at `url`. */
+export async function signedInContext(browser: Browser, url: string, cookie: string, options: BrowserContextOptions = {}): Promise<BrowserContext> {
+  const context = await browser.newContext(options);
+  const [name, value] = cookie.split(/=(.*)/s) as [string, string];
+  await context.addCookies([{ name, value, url }]);
+  return context;
 }
