@@ -24,7 +24,11 @@ type Phase =
 /** How often the copies are compared with the server again while the user waits (ms). */
 const RECHECK_MS = 1_500;
 
-async function titleOf(derivationId: string): Promise<string> {
+/** The derivation's title in quotes, or null when the server cannot say (it is asked again next round). */
+async function titleOf(derivationId: string): Promise<string | null> {
+  // On the derivation's own page the title is at hand even when the server is not.
+  const heading = window.location.pathname.startsWith(`/derivations/${derivationId}`) ? document.querySelector('#main h1')?.textContent?.trim() : null;
+  if (heading) return `“${heading}”`;
   try {
     const controller = new AbortController();
     const timer = setTimeout(() => controller.abort(), 3_000);
@@ -32,9 +36,9 @@ async function titleOf(derivationId: string): Promise<string> {
     clearTimeout(timer);
     const body = (await response.json()) as { derivation?: { title?: unknown }; title?: unknown };
     const title = body.derivation?.title ?? body.title;
-    return typeof title === 'string' && title ? `“${title}”` : 'a derivation';
+    return typeof title === 'string' && title ? `“${title}”` : null;
   } catch {
-    return 'a derivation';
+    return null;
   }
 }
 
@@ -46,8 +50,11 @@ async function unsentCopies(userId: string, titles: Map<string, string>): Promis
   for (const [i, state] of states.entries()) {
     if (state.state === 'confirmed') continue;
     const copy = copies[i]!;
-    if (!titles.has(copy.derivationId)) titles.set(copy.derivationId, await titleOf(copy.derivationId));
-    unsent.push({ copy, title: titles.get(copy.derivationId)!, state });
+    if (!titles.has(copy.derivationId)) {
+      const title = await titleOf(copy.derivationId);
+      if (title) titles.set(copy.derivationId, title);
+    }
+    unsent.push({ copy, title: titles.get(copy.derivationId) ?? 'a derivation', state });
   }
   return unsent;
 }

@@ -82,7 +82,7 @@ describe('signing out clears the copies on this device without losing an edit', 
       const dialog = page.getByRole('dialog', { name: 'Signing out' });
       await dialog.locator('[role="alert"]').waitFor({ timeout: 30_000 });
       expect(await dialog.getAttribute('data-sign-out')).toBe('unsent');
-      expect(await dialog.textContent()).toContain('have not been confirmed by the server yet');
+      expect(await dialog.textContent()).toContain('Edits to “Waited for the server” on this device have not been confirmed by the server yet');
       await dialog.getByRole('button', { name: 'Wait for them' }).click();
       await dialog.getByText('you will be signed out as soon as the server has them all').waitFor();
       // Nothing is cleared while the edits are on their way.
