@@ -81,13 +81,15 @@ function formatComplex(value: number | Complex): string {
   return `${formatNumber(value.re)} ${value.im < 0 ? '−' : '+'} ${formatNumber(Math.abs(value.im))} i`;
 }
 
-export function formatMeasured(value: Measured | null): string {
+/** A measured value; given its uncertainty, each real number is written to the digit the uncertainty reaches. */
+export function formatMeasured(value: Measured | null, uncertainty: number | null = null): string {
+  const real = (v: number) => (uncertainty === null ? formatNumber(v) : formatValueAt(v, uncertainty));
   if (value === null || value === undefined) return '—';
-  if (typeof value === 'number') return formatNumber(value);
-  if (Array.isArray(value)) return value.map(formatComplex).join(', ');
-  return Object.entries(value)
-    .map(([name, v]) => `${name} = ${formatNumber(v)}`)
-    .join(', ');
+  if (typeof value === 'number') return real(value);
+  if (Array.isArray(value)) return value.map((v) => (typeof v === 'number' ? real(v) : formatComplex(v))).join(', ');
+  // Several named values may each have their own uncertainty (p and x of a log exponent): full digits then.
+  const entries = Object.entries(value);
+  return entries.map(([name, v]) => `${name} = ${entries.length === 1 ? real(v) : formatNumber(v)}`).join(', ');
 }
 
 function difference(measured: Measured | null, expected: Measured | null): string | null {
@@ -144,9 +146,9 @@ function Pairs({ record, label }: { record: SettingsRecord; label: string }) {
   );
 }
 
-/** The measured value, a single number written to the digit its uncertainty reaches. */
+/** The measured value, its real numbers written to the digit the uncertainty reaches. */
 function measuredText(result: ClaimResult): string {
-  return typeof result.measured === 'number' ? formatValueAt(result.measured, result.uncertainty) : formatMeasured(result.measured);
+  return formatMeasured(result.measured, result.uncertainty);
 }
 
 function uncertaintyText(result: ClaimResult): string {
