@@ -5,7 +5,7 @@
 // confirmation that they will be discarded.
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
-import { demoAccount, demoSessions, launchBrowser, signIn, startServer, type DemoSessions, type StartedServer } from '../helpers';
+import { demoAccount, demoSessions, launchBrowser, signIn, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
 import { connectClient } from '../integration/collabClients';
 
 let server: StartedServer;
@@ -34,9 +34,7 @@ async function newDerivation(title: string): Promise<string> {
 async function authorOn(derivationId: string): Promise<{ context: BrowserContext; page: Page }> {
   const author = demoAccount('author');
   const cookie = await signIn(server.url, author.email, author.password);
-  const context = await browser.newContext({ viewport: { width: 1200, height: 900 } });
-  const [name, ...rest] = cookie.split('=');
-  await context.addCookies([{ name: name!, value: rest.join('='), url: server.url }]);
+  const context = await signedInContext(browser, server.url, cookie, { viewport: { width: 1200, height: 900 } });
   const page = await context.newPage();
   await page.goto(`${server.url}/derivations/${derivationId}`);
   await page.locator('[data-connection="connected"]').waitFor({ timeout: 30_000 });
