@@ -137,11 +137,13 @@ export function FitPanel({ series, predictions = NO_PREDICTIONS }: { series: Ser
       : answerOf(agreementShown, 'agreement');
 
   const fitted = fit && 'fit' in fit ? fit.fit : null;
+  // The data's points are made once per dataset: a new fit changes only the fitted curve.
+  const dataPoints = useMemo(() => datasetPlotSeries(series), [series]);
   const plotted = useMemo<PlotSeries[]>(() => {
-    const out: PlotSeries[] = [datasetPlotSeries(series), ...predictions];
+    const out: PlotSeries[] = [dataPoints, ...predictions];
     if (fitted) out.push(fitPlotSeries(fitted, series.x.values, logX));
     return out;
-  }, [fitted, predictions, series, logX]);
+  }, [dataPoints, fitted, predictions, series, logX]);
   const stride = drawnStride(n);
   const xAxis = useMemo(() => ({ label: axisLabel(series.x), scale: logX ? ('log' as const) : ('linear' as const) }), [series, logX]);
   const yAxis = useMemo(() => ({ label: axisLabel(series.y), scale: logY ? ('log' as const) : ('linear' as const) }), [series, logY]);

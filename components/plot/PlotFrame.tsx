@@ -294,6 +294,18 @@ function axisOf(axis: PlotAxis, values: () => number[]): { domain: Domain | null
   return axis.domain ? linearAxis(axis.domain, true) : linearAxis(domainOf(values(), false, false), false);
 }
 
+type AxisRange = ReturnType<typeof axisOf>;
+
+const sameNumbers = (a: readonly number[] | null | undefined, b: readonly number[] | null | undefined) =>
+  a === b || (!!a && !!b && a.length === b.length && a.every((v, i) => v === b[i]));
+
+/** The previous range while the numbers are the same: recharts then keeps its scales and does not redraw every point. */
+function useSameAxis(next: AxisRange): AxisRange {
+  const previous = useRef(next);
+  if (!sameNumbers(previous.current.domain, next.domain) || !sameNumbers(previous.current.ticks, next.ticks)) previous.current = next;
+  return previous.current;
+}
+
 const NO_MARKERS: PlotMarker[] = [];
 const NO_NOTES: string[] = [];
 
@@ -326,23 +338,38 @@ function PlotFrameDrawing({ title, x, y, series, markers = NO_MARKERS, height = 
   const clipId = `plot-clip-${useId().replace(/[^a-zA-Z0-9_-]/g, '')}`;
   const hintId = `${clipId}-hint`;
 
+  // A series given again (the same object) keeps its drawable points, so a plot that only gains
+  // a curve does not hand recharts thousands of new points.
+  const kept = useRef(new WeakMap<PlotSeries, { logX: boolean; logY: boolean; points: PlotPoint[] }>());
   const drawn = useMemo<DrawnSeries[]>(() => {
     let line = 0;
     return series.map((s, i) => {
       const look = s.look ?? LINE_LOOKS[line % LINE_LOOKS.length]!;
       if (look !== 'points') line++;
-      const points = s.points.filter((p) => drawable(p, logX, logY));
+      const known = kept.current.get(s);
+      const points = known && known.logX === logX && known.logY === logY ? known.points : s.points.filter((p) => drawable(p, logX, logY));
+      kept.current.set(s, { logX, logY, points });
       return { series: s, look, colour: PALETTE[i % PALETTE.length]!, points, hidden: s.points.length - points.length };
     });
   }, [series, logX, logY]);
+  const scatterData = useRef(new WeakMap<PlotPoint[], { logY: boolean; data: { x: number; y: number; bar: [number, number] | undefined }[] }>());
+  const scatterOf = (points: PlotPoint[]) => {
+    const known = scatterData.current.get(points);
+    if (known && known.logY === logY) return known.data;
+    const data = points.map((p) => ({ x: p.x, y: p.y, bar: p.sigma == null ? undefined : ([logY ? Math.min(p.sigma, p.y * 0.999) : p.sigma, p.sigma] as [number, number]) }));
+    scatterData.current.set(points, { logY, data });
+    return data;
+  };
   const shownMarkers = useMemo(() => markers.filter((m) => drawable(m, logX, logY)), [markers, logX, logY]);
   const groups = useMemo(() => [...drawn.map((d) => d.points as { x: number; y: number; readout?: ReadoutEntry[] }[]), shownMarkers], [drawn, shownMarkers]);
 
-  const xAxis = axisOf(x, () => groups.flatMap((g) => g.map((p) => p.x)));
-  const yAxis = axisOf(y, () => [
-    ...drawn.flatMap((d) => d.points.flatMap((p) => (p.sigma == null ? [p.y] : [p.y + p.sigma, logY ? p.y * 0.5 : p.y - p.sigma]))),
-    ...shownMarkers.map((m) => m.y),
-  ]);
+  const xAxis = useSameAxis(axisOf(x, () => groups.flatMap((g) => g.map((p) => p.x))));
+  const yAxis = useSameAxis(
+    axisOf(y, () => [
+      ...drawn.flatMap((d) => d.points.flatMap((p) => (p.sigma == null ? [p.y] : [p.y + p.sigma, logY ? p.y * 0.5 : p.y - p.sigma]))),
+      ...shownMarkers.map((m) => m.y),
+    ]),
+  );
 
   const legend = useMemo(() => drawn.map((d) => ({ name: d.series.name, look: d.look, colour: d.colour })), [drawn]);
   const rows = legendRows(legend, Math.max(120, width - MARGIN.left - MARGIN.right - 64));
@@ -486,7 +513,7 @@ function PlotFrameDrawing({ title, x, y, series, markers = NO_MARKERS, height = 
                 <Scatter
                   key={d.series.id}
                   name={d.series.name}
-                  data={d.points.map((p) => ({ x: p.x, y: p.y, bar: p.sigma == null ? undefined : [logY ? Math.min(p.sigma, p.y * 0.999) : p.sigma, p.sigma] }))}
+                  data={scatterOf(d.points)}
                   fill={d.colour}
                   shape="circle"
                   isAnimationActive={false}
