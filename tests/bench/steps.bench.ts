@@ -85,7 +85,15 @@ async function loadOnce(browser: Browser, server: StartedServer, demo: DemoSessi
   const context = await signedInContext(browser, server, demo.cookies.author);
   const page = await context.newPage();
   await page.goto(`${server.url}/derivations/${demo.derivationId}`);
-  await page.waitForFunction((steps) => document.querySelectorAll('.derivation-text > *').length >= steps, TARGET_STEPS, { timeout: 60_000, polling: 'raf' });
+  // Shown: every step in the editor, and the editor on screen (not hidden while the text loads).
+  await page.waitForFunction(
+    (steps) => {
+      const text = document.querySelector<HTMLElement>('.derivation-text');
+      return text !== null && text.checkVisibility() && text.childElementCount >= steps;
+    },
+    TARGET_STEPS,
+    { timeout: 60_000, polling: 'raf' },
+  );
   const documentShown = await page.evaluate(() => performance.now());
   await page.waitForFunction(
     (claims) => {

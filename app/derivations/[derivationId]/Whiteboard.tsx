@@ -65,16 +65,19 @@ export default function Whiteboard({ derivationId, title, user, role, canEdit, o
           Read-only: as {role} you can read this derivation and follow it; the text can be changed by its authors.
         </p>
       )}
-      {session.ready ? (
-        <DerivationContext.Provider value={derivation}>
-          {editor && <ChecksSidebar editor={editor} title={title} canEdit={editable} />}
-          <DerivationEditor binding={binding} editable={editable} label={title} onReady={setEditor} />
-        </DerivationContext.Provider>
-      ) : (
+      {/* The editor is mounted at once, on the document as it is (usually empty), and shown when
+          the text is ready: the text arriving then builds its views once, and layout waits for it. */}
+      {!session.ready && (
         <p className="text-ink-faint" role="status">
           Loading the text…
         </p>
       )}
+      <DerivationContext.Provider value={derivation}>
+        {editor && session.ready && <ChecksSidebar editor={editor} title={title} canEdit={editable} />}
+        <div hidden={!session.ready}>
+          <DerivationEditor binding={binding} editable={editable} label={title} onReady={setEditor} />
+        </div>
+      </DerivationContext.Provider>
     </section>
   );
 }
