@@ -11,8 +11,11 @@ import { fetchJson } from '../../_lib/fetchJson';
 import type { DerivationView, Wire } from '../../_lib/wire';
 import { ReviewPane } from './ReviewPane';
 
-// The editor and its connection live in the browser only (Yjs, IndexedDB, websocket).
-const Whiteboard = dynamic(() => import('./Whiteboard'), {
+// The editor and its connection live in the browser only (Yjs, IndexedDB, websocket). Its code is
+// fetched as soon as this page's code runs, alongside the derivation's facts, not after them.
+const loadWhiteboard = () => import('./Whiteboard');
+if (typeof window !== 'undefined') void loadWhiteboard();
+const Whiteboard = dynamic(loadWhiteboard, {
   ssr: false,
   loading: () => <p className="text-ink-faint" role="status">Opening the derivation…</p>,
 });
