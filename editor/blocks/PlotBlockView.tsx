@@ -5,7 +5,7 @@
 // with flow/trajectory.ts a moment after the flow or the starts change.
 import type { Node as ProseMirrorNode } from '@tiptap/pm/model';
 import { NodeViewContent, NodeViewWrapper, type NodeViewProps } from '@tiptap/react';
-import { startTransition, useEffect, useMemo, useRef, useState } from 'react';
+import { startTransition, useEffect, useMemo, useRef, useState, type RefObject } from 'react';
 import { AttachDatasetPicker, useDatasetOverlay } from '@/components/datasets/attach';
 import { PlotFrame } from '@/components/plot';
 import type { FlowSpec, TrajectoryResult, ValueInput } from '@/flow';
@@ -141,6 +141,25 @@ function readStarts(node: ProseMirrorNode, couplings: readonly string[]): { capt
   return { caption, starts };
 }
 
+/** How far outside the screen a plot is drawn ahead of scrolling to it (px). */
+const NEAR_SCREEN_MARGIN = '600px';
+
+/**
+ * Whether the element is on screen or near it. A chart costs a few hundred milliseconds to draw:
+ * off screen it is drawn when it comes near, not on every change of its flow.
+ */
+function useNearScreen(ref: RefObject<HTMLElement | null>): boolean {
+  const [near, setNear] = useState(() => typeof IntersectionObserver === 'undefined');
+  useEffect(() => {
+    const element = ref.current;
+    if (!element || typeof IntersectionObserver === 'undefined') return;
+    const observer = new IntersectionObserver((entries) => setNear(entries.some((entry) => entry.isIntersecting)), { rootMargin: NEAR_SCREEN_MARGIN });
+    observer.observe(element);
+    return () => observer.disconnect();
+  }, [ref]);
+  return near;
+}
+
 function Choice<T extends string>({ label, value, options, onChange, disabled }: { label: string; value: T; options: { value: T; label: string }[]; onChange: (value: T) => void; disabled: boolean }) {
   return (
     <label className="inline-flex items-center gap-1">
@@ -212,6 +231,12 @@ export function PlotBlockView(props: NodeViewProps) {
     [traced, JSON.stringify(settings), spec?.couplings.join(','), spec?.convention],
   );
   const picture = useMemo(() => (traces && overlay.series.length ? withOverlay(traces, overlay.series) : traces), [traces, overlay.series]);
+  // The chart shows the latest picture while near the screen; off screen it keeps the last one drawn.
+  const output = useRef<HTMLDivElement>(null);
+  const near = useNearScreen(output);
+  const drawn = useRef(picture);
+  if (near) drawn.current = picture;
+  const shown = drawn.current;
 
   const problems: string[] = [];
   if (bound.missing) problems.push(bound.missing);
@@ -229,6 +254,10 @@ export function PlotBlockView(props: NodeViewProps) {
   const set = (attrs: Partial<Record<keyof PlotSettings | typeof PLOT_FLOW | typeof PLOT_DATASET, unknown>>) => updateAttributes(attrs);
   const couplingOptions = couplings.map((c) => ({ value: c, label: c }));
   const title = caption || `Trajectories of ${bound.label || 'the flow'}`;
+  const chart = useMemo(
+    () => (shown ? <PlotFrame title={title} x={shown.x} y={shown.y} series={shown.series} markers={shown.markers} notes={shown.notes} height={320} /> : null),
+    [shown, title],
+  );
 
   return (
     <NodeViewWrapper as="section" className="plot-block" data-trajectory-plot="" data-step-id={typeof node.attrs.stepId === "string" ? node.attrs.stepId : undefined} aria-label="Trajectory plot">
@@ -319,7 +348,7 @@ export function PlotBlockView(props: NodeViewProps) {
         )}
       </div>
       <NodeViewContent className="plot-block-fields" />
-      <div contentEditable={false} suppressContentEditableWarning className="plot-block-output">
+      <div ref={output} contentEditable={false} suppressContentEditableWarning className="plot-block-output">
         {editable && <p className="text-xs text-ink-faint">Caption first, then one starting point per line, e.g. {couplings.length ? couplings.map((c) => `${c} = 0.1`).join(', ') : 'g = 0.1'}; Enter adds a line.</p>}
         {problems.length > 0 && (
           <ul className="mt-1 text-sm text-verdict-invalid" role="status" data-plot-problems="">
@@ -332,9 +361,7 @@ export function PlotBlockView(props: NodeViewProps) {
         <p className="h-5 text-sm text-ink-faint" role="status">
           {following ? 'Following the flow…' : ''}
         </p>
-        {picture && (
-          <PlotFrame title={title} x={picture.x} y={picture.y} series={picture.series} markers={picture.markers} notes={picture.notes} height={320} />
-        )}
+        {chart}
       </div>
     </NodeViewWrapper>
   );
