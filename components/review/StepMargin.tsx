@@ -24,15 +24,17 @@ export function stepElement(root: HTMLElement, stepId: string): HTMLElement | nu
   return null;
 }
 
-/** The outermost element of every step in the editor, by step id, in one pass over the text. */
+/**
+ * The outermost element of every step in the editor, by step id, in one pass over the text's
+ * top-level elements (each step is one of them, or the first element with an id inside one).
+ */
 export function stepElements(root: HTMLElement): Map<string, HTMLElement> {
   const text = root.querySelector('.ProseMirror') ?? root;
   const found = new Map<string, HTMLElement>();
-  for (const element of text.querySelectorAll<HTMLElement>('[data-step-id]')) {
-    const id = element.getAttribute('data-step-id');
-    if (!id || found.has(id)) continue;
-    const outer = element.parentElement?.closest('[data-step-id]');
-    if (!outer || !text.contains(outer)) found.set(id, element);
+  for (const child of text.children) {
+    const element = child.hasAttribute('data-step-id') ? child : child.querySelector('[data-step-id]');
+    const id = element?.getAttribute('data-step-id');
+    if (element instanceof HTMLElement && id && !found.has(id)) found.set(id, element);
   }
   return found;
 }
@@ -125,7 +127,11 @@ export function StepMargin({
   const itemRefs = useRef(new Map<string, HTMLElement>());
   const frame = useRef<number | null>(null);
 
-  const stepIds = useMemo(() => steps.map((s) => s.stepId).join(' '), [steps]);
+  // Only the steps with something in the margin are measured.
+  const stepIds = useMemo(
+    () => steps.filter((s) => s.stepId === selectedStepId || hasNote(s) || s.stepId === hovered).map((s) => s.stepId).join(' '),
+    [steps, selectedStepId, hovered],
+  );
 
   const measure = useCallback(() => {
     frame.current = null;
@@ -147,12 +153,17 @@ export function StepMargin({
     setHeights((before) => (JSON.stringify(before) === JSON.stringify(measured) ? before : measured));
   }, [main, stepIds]);
 
+  // The frame runs the latest measure (the steps to measure may change while it waits).
+  const latestMeasure = useRef(measure);
+  latestMeasure.current = measure;
   const schedule = useCallback(() => {
-    if (frame.current === null) frame.current = requestAnimationFrame(measure);
-  }, [measure]);
+    if (frame.current === null) frame.current = requestAnimationFrame(() => latestMeasure.current());
+  }, []);
 
+  // After every render, measured in the next frame (before it is painted): never a layout forced
+  // in the middle of React's commit or of a change to the text.
   useLayoutEffect(() => {
-    measure();
+    schedule();
   });
 
   useEffect(() => {
