@@ -7,6 +7,7 @@ import { BlockTools } from './blocks/BlockTools';
 import { derivationExtensions, type EditorBinding } from './extensions';
 import './editor.css';
 import './blocks/blocks.css';
+import './offscreen.css';
 
 export interface DerivationEditorProps {
   binding: EditorBinding;
