@@ -1,58 +1,24 @@
 'use client';
 // The page's one fit worker and the hook panels use to ask it: a dataset's columns are sent once
 // (transferred, not copied) and forgotten when no panel shows it; each panel's newest request
-// replaces its one still waiting; a worker that dies is started again and the waiting panel told.
+// replaces its one still waiting; a worker that dies is started again and the waiting panel told
+// (the queue: components/workerRequests.ts).
 // Small datasets are fitted at once on the page (a few milliseconds), large ones in the worker.
 import { useEffect, useId, useMemo, useState } from 'react';
 import { fitDataOf, runFitJob, WORKER_FIT_ROWS, type FitJob, type FitJobResult } from './fitJobs';
 import type { FitReply, FitRequest } from './fitProtocol';
 import type { SeriesInput } from './series';
+import { workerRequests } from '../workerRequests';
 
 type FitAnswer = { ok: true; results: FitJobResult[] } | { ok: false; error: string };
 
-interface Waiting {
-  series: SeriesInput;
-  jobs: FitJob[];
-  /** null: replaced by a newer request of the same panel, or the panel went away. */
-  answer(result: FitAnswer | null): void;
-}
-
-let worker: Worker | null = null;
 /** The id under which the current worker holds each dataset it was sent. */
 let sent = new WeakMap<SeriesInput, number>();
 const shownBy = new Map<SeriesInput, number>();
 let nextDataId = 1;
-let nextRequestId = 1;
-let running: (Waiting & { requestId: number }) | null = null;
-const queued = new Map<string, Waiting>();
 
 function post(target: Worker, message: FitRequest, transfer: Transferable[] = []): void {
   target.postMessage(message, transfer);
-}
-
-function startWorker(): Worker {
-  const started = new Worker(new URL('./fit.worker.ts', import.meta.url), { type: 'module', name: 'marginalia-fits' });
-  started.onmessage = (event: MessageEvent<FitReply>) => {
-    const reply = event.data;
-    const current = running;
-    if (!current || reply.requestId !== current.requestId) return;
-    running = null;
-    current.answer('results' in reply ? { ok: true, results: reply.results } : { ok: false, error: `The fit could not be done: ${reply.error}` });
-    pump();
-  };
-  started.onerror = (event) => {
-    event.preventDefault();
-    started.terminate();
-    if (worker === started) {
-      worker = null;
-      sent = new WeakMap();
-    }
-    const current = running;
-    running = null;
-    current?.answer({ ok: false, error: 'The fit worker stopped unexpectedly and was started again; change a setting to fit again.' });
-    pump();
-  };
-  return started;
 }
 
 /** The dataset's id in the worker, sending its columns first if the worker does not hold them. */
@@ -68,31 +34,15 @@ function dataIdIn(target: Worker, series: SeriesInput): number {
   return dataId;
 }
 
-function pump(): void {
-  if (running) return;
-  const next = queued.entries().next();
-  if (next.done) return;
-  const [owner, waiting] = next.value;
-  queued.delete(owner);
-  worker ??= startWorker();
-  const requestId = nextRequestId++;
-  running = { ...waiting, requestId };
-  post(worker, { type: 'run', requestId, dataId: dataIdIn(worker, waiting.series), jobs: waiting.jobs });
-}
-
-function fitInWorker(owner: string, series: SeriesInput, jobs: FitJob[]): Promise<FitAnswer | null> {
-  return new Promise((resolve) => {
-    queued.get(owner)?.answer(null);
-    queued.set(owner, { series, jobs, answer: resolve });
-    pump();
-  });
-}
-
-function withdraw(owner: string): void {
-  const waiting = queued.get(owner);
-  queued.delete(owner);
-  waiting?.answer(null);
-}
+const fits = workerRequests<{ series: SeriesInput; jobs: FitJob[] }, FitReply, FitAnswer>({
+  start: () => new Worker(new URL('./fit.worker.ts', import.meta.url), { type: 'module', name: 'marginalia-fits' }),
+  send: (worker, { series, jobs }, requestId) => post(worker, { type: 'run', requestId, dataId: dataIdIn(worker, series), jobs }),
+  answer: (reply) => ('results' in reply ? { ok: true, results: reply.results } : { ok: false, error: `The fit could not be done: ${reply.error}` }),
+  failed: { ok: false, error: 'The fit worker stopped unexpectedly and was started again; change a setting to fit again.' },
+  onWorkerLost: () => {
+    sent = new WeakMap();
+  },
+});
 
 function retain(series: SeriesInput): void {
   shownBy.set(series, (shownBy.get(series) ?? 0) + 1);
@@ -107,6 +57,7 @@ function release(series: SeriesInput): void {
   shownBy.delete(series);
   const dataId = sent.get(series);
   sent.delete(series);
+  const worker = fits.current();
   if (worker && dataId !== undefined) post(worker, { type: 'forget', dataId });
 }
 
@@ -146,12 +97,12 @@ export function useFitJobs(series: SeriesInput | null, jobs: FitJob[] | null): F
   useEffect(() => {
     if (!series || !inWorker || key === null) return;
     let current = true;
-    void fitInWorker(owner, series, JSON.parse(key) as FitJob[]).then((result) => {
+    void fits.ask(owner, { series, jobs: JSON.parse(key) as FitJob[] }).then((result) => {
       if (current && result) setAnswer({ series, key, answer: result });
     });
     return () => {
       current = false;
-      withdraw(owner);
+      fits.withdraw(owner);
     };
   }, [series, key, inWorker, owner]);
 
