@@ -223,8 +223,8 @@ export function checkClaims(file: ClaimFile, options: CheckOptions = {}): Report
   return summarise(results);
 }
 
-/** One turn of the event loop without the clamping nested timers get in browsers. */
-function yieldToEventLoop(): Promise<void> {
+/** One turn of the event loop without the clamping nested timers get in browsers (also the check worker's pause between claims). */
+export function yieldToEventLoop(): Promise<void> {
   if (typeof MessageChannel === 'undefined') return new Promise((resolve) => setTimeout(resolve, 0));
   return new Promise((resolve) => {
     const channel = new MessageChannel();

@@ -2,6 +2,7 @@
 // list of items replaces what is queued (an edit supersedes older checks); between two claims it
 // yields so that such a list can arrive. A claim that runs long is stopped by the page ending
 // this worker and starting a fresh one.
+import { yieldToEventLoop } from '@/flow/runner';
 import { runItem } from './checkLogic';
 import type { CheckAnswer, CheckItem, CheckRequest } from './protocol';
 
@@ -14,23 +15,12 @@ const scope = self as unknown as Scope;
 let queue: CheckItem[] = [];
 let pumping = false;
 
-function nextTurn(): Promise<void> {
-  return new Promise((resolve) => {
-    const channel = new MessageChannel();
-    channel.port1.onmessage = () => {
-      channel.port1.close();
-      resolve();
-    };
-    channel.port2.postMessage(null);
-  });
-}
-
 async function pump(): Promise<void> {
   if (pumping) return;
   pumping = true;
   try {
     for (;;) {
-      await nextTurn();
+      await yieldToEventLoop();
       const item = queue.shift();
       if (!item) break;
       scope.postMessage({ type: 'started', ticket: item.ticket });
