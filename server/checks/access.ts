@@ -4,6 +4,7 @@
 // route handlers (bundled by Next.js as separate module copies) reach the same scheduler.
 import type { DocumentReading } from '../../flow/document';
 import type { ClaimResult, Status } from '../../flow/types';
+import type { ClaimPlace } from './results';
 
 export interface VerdictChange {
   stepId: string;
@@ -30,12 +31,7 @@ export interface VerdictsChanged {
 }
 
 /** One claim block of a document checked on demand (checkDocument), in document order. */
-export interface CheckedClaim {
-  stepId: string;
-  claimId: string;
-  position: number;
-  kind: string;
-  flowStepId: string | null;
+export interface CheckedClaim extends ClaimPlace {
   /** Fingerprint of what was checked (the claim and its flow). */
   inputHash: string;
   result: ClaimResult;

@@ -5,12 +5,16 @@ import { getDb, schema } from '../../db/client';
 import type { ClaimResult, Status } from '../../flow/types';
 import type { StoredCheck } from './plan';
 
-export interface ClaimCheckRow {
+/** Where a claim stands: its block, its id in the claim file, its place and its flow block. */
+export interface ClaimPlace {
   stepId: string;
   claimId: string;
   position: number;
   kind: string;
   flowStepId: string | null;
+}
+
+export interface ClaimCheckRow extends ClaimPlace {
   status: Status;
   previousStatus: Status | null;
   statusSince: Date;
@@ -31,12 +35,7 @@ export async function storedChecks(derivationId: string): Promise<Map<string, St
   return new Map(rows.map((row) => [row.stepId, { ...row, result: row.result as ClaimResult }]));
 }
 
-export interface ClaimToStore {
-  stepId: string;
-  claimId: string;
-  position: number;
-  kind: string;
-  flowStepId: string | null;
+export interface ClaimToStore extends ClaimPlace {
   inputHash: string;
   result: ClaimResult;
 }
@@ -110,18 +109,13 @@ export interface ChecksView {
   checkedAt: Date | null;
   summary: CheckCounts;
   /** Claims in document order of the last run. */
-  claims: {
-    stepId: string;
-    claimId: string;
-    position: number;
-    kind: string;
-    flowStepId: string | null;
+  claims: (ClaimPlace & {
     status: Status;
     previousStatus: Status | null;
     statusSince: Date;
     checkedAt: Date;
     result: ClaimResult;
-  }[];
+  })[];
 }
 
 /** The latest server-side verdicts of a derivation, for the API. */

@@ -1,14 +1,9 @@
 // What the versions part stores and answers (plain data; dates as Date, ISO strings on the wire).
-import type { CheckCounts } from '../checks/results';
+import type { CheckCounts, ClaimPlace } from '../checks/results';
 import type { ClaimResult, Status } from '../../flow/types';
 
 /** One claim of a version with the verdict the server found for exactly this content. */
-export interface VersionClaim {
-  stepId: string;
-  claimId: string;
-  position: number;
-  kind: string;
-  flowStepId: string | null;
+export interface VersionClaim extends ClaimPlace {
   status: Status;
   result: ClaimResult;
 }
