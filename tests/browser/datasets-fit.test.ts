@@ -5,27 +5,22 @@
 // the law the data were drawn from within its reported uncertainty.
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
-import { createServer, type ViteDevServer } from 'vite';
+import type { ViteDevServer } from 'vite';
 import { afterAll, beforeAll, expect, test } from 'vitest';
 import { formatNumber } from '../../components/datasets/FitPanel';
 import { fitPowerLog } from '../../flow/fit';
 import { launchBrowser, repoRoot } from '../helpers';
+import { serveHarness } from '../helpers/harness';
 import { LAW, walkSeries } from './fit-harness/walkData';
 
 const ROWS = 1_000_000;
 let vite: ViteDevServer;
+let pageUrl: string;
 let browser: Browser;
 let page: Page;
 
 beforeAll(async () => {
-  vite = await createServer({
-    root: path.join(repoRoot, 'tests/browser/fit-harness'),
-    configFile: false,
-    logLevel: 'warn',
-    server: { port: 0, host: '127.0.0.1' },
-    resolve: { alias: { '@': repoRoot } },
-  });
-  await vite.listen();
+  ({ vite, url: pageUrl } = await serveHarness('fit-harness'));
   browser = await launchBrowser();
   page = await (await browser.newContext({ viewport: { width: 1100, height: 1400 } })).newPage();
 });
@@ -43,7 +38,7 @@ function paintsWhileFitting(): Promise<boolean> {
 }
 
 test('a million-row dataset is fitted in the fit worker: the panel says "Fitting…", then shows the fit', async () => {
-  await page.goto(`${vite.resolvedUrls!.local[0]!}?rows=${ROWS}`);
+  await page.goto(`${pageUrl}?rows=${ROWS}`);
   const fitting = page.getByTestId('fitting').first();
   await fitting.waitFor({ timeout: 90_000 });
   expect(await fitting.textContent()).toContain('1,000,000 points');
@@ -78,7 +73,7 @@ test('a new setting keeps the last fit on screen, faded, until the worker answer
 });
 
 test('a y-axis label longer than the plot is tall is wrapped and shown whole inside the frame', async () => {
-  await page.goto(`${vite.resolvedUrls!.local[0]!}?rows=200&y=${encodeURIComponent('mean-square end-to-end distance of the walk, averaged over every sample')}`);
+  await page.goto(`${pageUrl}?rows=200&y=${encodeURIComponent('mean-square end-to-end distance of the walk, averaged over every sample')}`);
   const frame = page.getByTestId('plot-frame');
   const label = frame.locator('[data-axis-label="y"] text');
   await expect.poll(() => label.count(), { timeout: 60_000 }).toBeGreaterThan(1);

@@ -10,28 +10,22 @@
 //   the isotropic point is stable for n < 4, the cubic one for n > 4.
 // - the O(n) two-loop flow (Kleinert and Schulte-Frohlinde 2001; from memory): g* = 3 eps/(n+8) + 9(3n+14)/(n+8)^3 eps^2.
 import { readFile } from 'node:fs/promises';
-import path from 'node:path';
 import type { Browser, Locator, Page } from 'playwright-core';
-import { createServer, type ViteDevServer } from 'vite';
+import type { ViteDevServer } from 'vite';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
-import { launchBrowser, repoRoot } from '../helpers';
+import { launchBrowser } from '../helpers';
+import { serveHarness } from '../helpers/harness';
 
 let vite: ViteDevServer;
 let browser: Browser;
 let page: Page;
 
 beforeAll(async () => {
-  vite = await createServer({
-    root: path.join(repoRoot, 'tests/browser/steps-plot-harness'),
-    configFile: false,
-    logLevel: 'warn',
-    server: { port: 0, host: '127.0.0.1' },
-    resolve: { alias: { '@': repoRoot } },
-  });
-  await vite.listen();
+  let url: string;
+  ({ vite, url } = await serveHarness('steps-plot-harness'));
   browser = await launchBrowser();
   page = await (await browser.newContext({ viewport: { width: 1000, height: 1400 }, acceptDownloads: true })).newPage();
-  await page.goto(vite.resolvedUrls!.local[0]!);
+  await page.goto(url);
   await plot('plot-plane').locator('[data-testid=plot-frame] svg.recharts-surface').waitFor({ timeout: 90_000 });
 });
 
