@@ -2,7 +2,7 @@
 // member sees both carets, each with its name, and neither name covers the other.
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, test } from 'vitest';
-import { demoAccount, demoSessions, launchBrowser, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
+import { demoAccount, demoSessions, launchBrowser, openDerivation, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
 
 let server: StartedServer;
 let browser: Browser;
@@ -25,9 +25,7 @@ async function openAs(cookie: string, derivationId: string): Promise<Page> {
   const context = await signedInContext(browser, server.url, cookie);
   contexts.push(context);
   const page = await context.newPage();
-  await page.goto(`${server.url}/derivations/${derivationId}`);
-  await page.locator('[data-connection="connected"]').waitFor();
-  await page.locator('.ProseMirror').waitFor();
+  await openDerivation(page, server.url, derivationId);
   return page;
 }
 

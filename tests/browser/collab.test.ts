@@ -14,6 +14,7 @@ import {
   demoSessions,
   launchBrowser,
   linkIn,
+  openDerivation,
   readMailbox,
   registerAndSignIn,
   signedInContext,
@@ -59,12 +60,6 @@ async function newDerivation(title: string): Promise<string> {
   return created.body.id;
 }
 
-async function openDerivation(page: Page, derivationId: string): Promise<void> {
-  await page.goto(`${server.url}/derivations/${derivationId}`);
-  await page.locator('[data-connection="connected"]').waitFor();
-  await page.locator('.ProseMirror').waitFor();
-}
-
 /** The text as written: blocks one per line, other authors' caret labels left out. */
 const editorText = (page: Page) =>
   page.locator('.ProseMirror').evaluate((element) => {
@@ -93,8 +88,8 @@ describe('writing together', () => {
     const derivationId = await newDerivation('Typing together');
     const lead = await signedInPage(demo.cookies.lead);
     const author = await signedInPage(demo.cookies.author);
-    await openDerivation(lead, derivationId);
-    await openDerivation(author, derivationId);
+    await openDerivation(lead, server.url, derivationId);
+    await openDerivation(author, server.url, derivationId);
 
     await lead.locator('.ProseMirror').click();
     await lead.keyboard.type('The beta function at one loop.');
@@ -120,10 +115,10 @@ describe('writing together', () => {
     const derivationId = await newDerivation('Read only for readers');
     const author = await signedInPage(demo.cookies.author);
     const reader = await signedInPage(demo.cookies.reader);
-    await openDerivation(author, derivationId);
+    await openDerivation(author, server.url, derivationId);
     await author.locator('.ProseMirror').click();
     await author.keyboard.type('Only authors write here.');
-    await openDerivation(reader, derivationId);
+    await openDerivation(reader, server.url, derivationId);
     await reader.locator('.ProseMirror', { hasText: 'Only authors write here.' }).waitFor();
 
     expect(await reader.locator('.ProseMirror').getAttribute('contenteditable')).toBe('false');
@@ -143,8 +138,8 @@ describe('steps', () => {
     const derivationId = await newDerivation('Steps and their ids');
     const author = await signedInPage(demo.cookies.author);
     const lead = await signedInPage(demo.cookies.lead);
-    await openDerivation(author, derivationId);
-    await openDerivation(lead, derivationId);
+    await openDerivation(author, server.url, derivationId);
+    await openDerivation(lead, server.url, derivationId);
     await author.locator('.ProseMirror').click();
     await author.keyboard.type('First step of the flow.');
     await author.keyboard.press('Enter');
@@ -195,8 +190,8 @@ describe('math', () => {
     const derivationId = await newDerivation('Formulas');
     const author = await signedInPage(demo.cookies.author);
     const lead = await signedInPage(demo.cookies.lead);
-    await openDerivation(author, derivationId);
-    await openDerivation(lead, derivationId);
+    await openDerivation(author, server.url, derivationId);
+    await openDerivation(lead, server.url, derivationId);
     await author.locator('.ProseMirror').click();
     await author.keyboard.type('The coupling $g^2$ flows');
     const inline = author.locator('.math-inline').first();
@@ -236,8 +231,8 @@ describe('connection', () => {
     const derivationId = await newDerivation('Away and back');
     const lead = await signedInPage(demo.cookies.lead);
     const author = await signedInPage(demo.cookies.author);
-    await openDerivation(lead, derivationId);
-    await openDerivation(author, derivationId);
+    await openDerivation(lead, server.url, derivationId);
+    await openDerivation(author, server.url, derivationId);
     await author.locator('.ProseMirror').click();
     await author.keyboard.type('Written while connected.');
     await lead.locator('.ProseMirror', { hasText: 'Written while connected.' }).waitFor();
@@ -257,7 +252,7 @@ describe('connection', () => {
     await lead.locator('[data-connection="connected"]').waitFor({ timeout: 30_000 });
     expect(await editorText(lead)).not.toContain('while the server was away');
     const reopened = await author.context().newPage();
-    await openDerivation(reopened, derivationId);
+    await openDerivation(reopened, server.url, derivationId);
     await lead.locator('.ProseMirror', { hasText: 'Then written while the server was away.' }).waitFor();
     expect(await editorText(reopened)).toBe('Written while connected. Then written while the server was away.');
     expect(await editorText(lead)).toBe(await editorText(reopened));
@@ -277,7 +272,7 @@ describe('connection', () => {
     const members = await demo.as.lead.get<{ members: { userId: string; email: string }[] }>(`/api/groups/${demo.groupId}/members`);
     const member = members.body.members.find((m) => m.email === email)!;
     const page = await signedInPage(cookie);
-    await openDerivation(page, demo.derivationId);
+    await openDerivation(page, server.url, demo.derivationId);
     expect((await demo.as.lead.delete(`/api/groups/${demo.groupId}/members/${member.userId}`)).status).toBe(200);
     await page.locator('[data-connection="closed"]').waitFor();
     await page.getByRole('alert').getByText('Your access to this derivation was removed.').waitFor();

@@ -7,7 +7,7 @@
 // + O(eps^3), here at n = 0.
 import type { Browser, BrowserContext, Locator, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
-import { demoSessions, launchBrowser, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
+import { demoSessions, launchBrowser, openDerivation, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
 
 let server: StartedServer;
 let browser: Browser;
@@ -42,9 +42,7 @@ async function signedInPage(cookie: string): Promise<Page> {
   const context = await signedInContext(browser, server.url, cookie, { viewport: { width: 1300, height: 1100 }, acceptDownloads: true });
   contexts.push(context);
   const page = await context.newPage();
-  await page.goto(`${server.url}/derivations/${derivationId}`);
-  await page.locator('[data-connection="connected"]').waitFor();
-  await page.locator('.ProseMirror').waitFor();
+  await openDerivation(page, server.url, derivationId);
   return page;
 }
 

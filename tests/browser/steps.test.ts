@@ -11,7 +11,7 @@
 import { readFile } from 'node:fs/promises';
 import type { Browser, BrowserContext, Locator, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
-import { demoSessions, launchBrowser, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
+import { demoSessions, launchBrowser, openDerivation, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
 
 let server: StartedServer;
 let browser: Browser;
@@ -62,12 +62,6 @@ async function newDerivation(title: string): Promise<string> {
   return created.body.id;
 }
 
-async function openDerivation(page: Page, derivationId: string): Promise<void> {
-  await page.goto(`${server.url}/derivations/${derivationId}`);
-  await page.locator('[data-connection="connected"]').waitFor();
-  await page.locator('.ProseMirror').waitFor();
-}
-
 /** Imports a claim file through the page's file field and waits for its blocks. */
 async function importFile(page: Page, file: unknown, name = 'claims.json'): Promise<void> {
   const before = await page.locator('.claim-block').count();
@@ -116,7 +110,7 @@ async function waitForVerdict(block: Locator, verdict: string): Promise<void> {
 describe('inserting blocks', () => {
   test('a flow block typed field by field shows typeset previews, says what is wrong, and a fixed-point claim below it holds', async () => {
     const page = await signedInPage(demo.cookies.author);
-    await openDerivation(page, await newDerivation('Blocks typed by hand'));
+    await openDerivation(page, server.url, await newDerivation('Blocks typed by hand'));
     await page.locator('.ProseMirror').click();
     await page.getByRole('button', { name: 'Flow block' }).click();
     const flow = page.locator('.flow-block');
@@ -159,7 +153,7 @@ describe('inserting blocks', () => {
 
   test('a claim block of every kind can be inserted, each with its own fields, and a block missing its required fields says invalid input', async () => {
     const page = await signedInPage(demo.cookies.author);
-    await openDerivation(page, await newDerivation('Every kind of claim'));
+    await openDerivation(page, server.url, await newDerivation('Every kind of claim'));
     await page.locator('.ProseMirror').click();
     const kinds: [string, string, string[]][] = [
       ['identity', 'Identity', ['lhs', 'rhs', 'domain']],
@@ -200,7 +194,7 @@ describe('inserting blocks', () => {
 describe('live verdicts', () => {
   test('a claim that fails turns to holds when the sign of the two-loop term in its flow is corrected', async () => {
     const page = await signedInPage(demo.cookies.author);
-    await openDerivation(page, await newDerivation('A sign to fix'));
+    await openDerivation(page, server.url, await newDerivation('A sign to fix'));
     await page.locator('.ProseMirror').click();
     await importFile(page, claimFile(wrongSign));
     const fixedPoint = claimBlock(page, 1);
@@ -221,11 +215,11 @@ describe('live verdicts', () => {
     const page = await signedInPage(demo.cookies.reviewer);
     const derivationId = await newDerivation('Evidence to read');
     const author = await signedInPage(demo.cookies.author);
-    await openDerivation(author, derivationId);
+    await openDerivation(author, server.url, derivationId);
     await author.locator('.ProseMirror').click();
     await importFile(author, claimFile(twoLoop));
 
-    await openDerivation(page, derivationId);
+    await openDerivation(page, server.url, derivationId);
     const nu = claimBlock(page, 2);
     await waitForVerdict(nu, 'holds');
     await nu.getByRole('button', { name: 'Evidence' }).click();
@@ -261,10 +255,10 @@ describe('live verdicts', () => {
     const derivationId = await newDerivation('One flow, two authors');
     const author = await signedInPage(demo.cookies.author);
     const lead = await signedInPage(demo.cookies.lead);
-    await openDerivation(author, derivationId);
+    await openDerivation(author, server.url, derivationId);
     await author.locator('.ProseMirror').click();
     await importFile(author, claimFile(twoLoop));
-    await openDerivation(lead, derivationId);
+    await openDerivation(lead, server.url, derivationId);
     for (const page of [author, lead]) await waitForVerdict(claimBlock(page, 1), 'holds');
 
     // The lead breaks the two-loop term; both see the fixed point fail.
@@ -295,7 +289,7 @@ describe('live verdicts', () => {
 describe('checks that run long or cannot run', () => {
   test('a long check says it is running and can be cancelled; left alone it stops at its time bound and says so', async () => {
     const page = await signedInPage(demo.cookies.author);
-    await openDerivation(page, await newDerivation('A slow integral'));
+    await openDerivation(page, server.url, await newDerivation('A slow integral'));
     await page.locator('.ProseMirror').click();
     // sin(1/x)/x oscillates without end near 0: asked for 1e-15, the quadrature never settles.
     const slow = { id: 'slow', kind: 'integral', integrand: 'sin(1/x)/x', variable: 'x', from: 0, to: 1, value: 0.6, settings: { maxIntervals: 10_000_000, relativeTolerance: 1e-15, absoluteTolerance: 1e-300 } };
@@ -328,7 +322,7 @@ describe('checks that run long or cannot run', () => {
 describe('the check summary and the claim file', () => {
   test('choosing a claim in the summary brings it into view', async () => {
     const page = await signedInPage(demo.cookies.reader);
-    await openDerivation(page, demo.derivationId);
+    await openDerivation(page, server.url, demo.derivationId);
     const summary = page.getByRole('list', { name: 'Claims and their verdicts' });
     // The demo derivation: five claims hold and one deliberately fails.
     await page.locator('[data-check-counts]').getByText('5 hold').waitFor({ timeout: 30_000 });
@@ -348,7 +342,7 @@ describe('the check summary and the claim file', () => {
 
   test('a claim file exported from one derivation and imported into another gives the same verdicts; a bad file inserts nothing and names the field', async () => {
     const page = await signedInPage(demo.cookies.author);
-    await openDerivation(page, demo.derivationId);
+    await openDerivation(page, server.url, demo.derivationId);
     await page.locator('[data-check-counts]').getByText('5 hold').waitFor({ timeout: 30_000 });
     const verdictsBefore = await page.locator('.claim-block').evaluateAll((blocks) => blocks.map((b) => (b as HTMLElement).dataset.verdict));
 
@@ -363,7 +357,7 @@ describe('the check summary and the claim file', () => {
     await page.getByRole('button', { name: /^Claims without a flow \(1 claim\)$/ }).click();
     const aloneFile = JSON.parse(await readFile((await (await saveAlone).path())!, 'utf8')) as unknown;
 
-    await openDerivation(page, await newDerivation('Imported checks'));
+    await openDerivation(page, server.url, await newDerivation('Imported checks'));
     await page.locator('.ProseMirror').click();
     // A misspelt field: refused, naming it, nothing inserted.
     await page.getByLabel('Import a claim file', { exact: true }).setInputFiles({

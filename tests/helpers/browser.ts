@@ -1,7 +1,7 @@
 // Debian's Chromium driven by playwright-core. Playwright gives every launch a fresh, temporary
 // profile folder (the equivalent of a fresh --user-data-dir), removed when the browser closes.
 import { existsSync } from 'node:fs';
-import { chromium, type Browser, type BrowserContext, type BrowserContextOptions } from 'playwright-core';
+import { chromium, type Browser, type BrowserContext, type BrowserContextOptions, type Page } from 'playwright-core';
 
 export const chromiumPath = '/usr/bin/chromium';
 
@@ -28,4 +28,11 @@ export async function signedInContext(browser: Browser, url: string, cookie: str
   const [name, value] = cookie.split(/=(.*)/s) as [string, string];
   await context.addCookies([{ name, value, url }]);
   return context;
+}
+
+/** Opens a derivation's page and waits until it is connected and its editor is there. */
+export async function openDerivation(page: Page, url: string, derivationId: string): Promise<void> {
+  await page.goto(`${url}/derivations/${derivationId}`);
+  await page.locator('[data-connection="connected"]').waitFor();
+  await page.locator('.ProseMirror').waitFor();
 }
