@@ -29,4 +29,4 @@ export function runFitJob(data: FitData, job: FitJob): FitJobResult {
 }
 
 /** Above this many rows the page hands its fits to the fit worker; below, a fit takes a few milliseconds on the page. */
-export const WORKER_FIT_ROWS = 20_000;
+export const WORKER_FIT_ROWS = 5_000;
