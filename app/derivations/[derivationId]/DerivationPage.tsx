@@ -3,13 +3,14 @@
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import dynamic from 'next/dynamic';
 import Link from 'next/link';
-import { useCallback } from 'react';
+import { useCallback, useState } from 'react';
 import { ClaimCount } from '@/components/StatusWord';
 import { Loading, Notice, PageTitle, When } from '@/components/ui';
 import { VersionsPanel } from '@/app/_versions/VersionsPanel';
 import { fetchJson } from '../../_lib/fetchJson';
 import type { DerivationView, Wire } from '../../_lib/wire';
 import { ReviewPane } from './ReviewPane';
+import { requestServerCopy } from './serverCopy';
 
 // The editor and its connection live in the browser only (Yjs, IndexedDB, websocket). Its code is
 // fetched as soon as this page's code runs, alongside the derivation's facts, not after them.
@@ -22,10 +23,14 @@ const Whiteboard = dynamic(loadWhiteboard, {
 
 export function DerivationPage({ derivationId, user }: { derivationId: string; user: { id: string; name: string } }) {
   const queryClient = useQueryClient();
+  // The text's server copy is fetched with the page's facts, before the whiteboard's code has run.
+  useState(() => requestServerCopy(derivationId));
   const derivation = useQuery({
     queryKey: ['derivation', derivationId],
     queryFn: () => fetchJson<Wire<DerivationView>>(`/api/derivations/${derivationId}`),
   });
+  const [textShown, setTextShown] = useState(false);
+  const onTextShown = useCallback(() => setTextShown(true), []);
   const onRoleChanged = useCallback(() => {
     void queryClient.invalidateQueries({ queryKey: ['derivation', derivationId] });
   }, [queryClient, derivationId]);
@@ -72,7 +77,7 @@ export function DerivationPage({ derivationId, user }: { derivationId: string; u
           <dd className="text-ink">{d.role}</dd>
         </div>
       </dl>
-      <ReviewPane derivationId={derivationId} user={user} canEdit={d.actions.includes('editText')}>
+      <ReviewPane derivationId={derivationId} user={user} canEdit={d.actions.includes('editText')} textShown={textShown}>
         <Whiteboard
           key={`${derivationId}:${d.role}`}
           derivationId={derivationId}
@@ -81,6 +86,7 @@ export function DerivationPage({ derivationId, user }: { derivationId: string; u
           role={d.role}
           canEdit={d.actions.includes('editText')}
           onRoleChanged={onRoleChanged}
+          onTextShown={onTextShown}
         />
       </ReviewPane>
       <VersionsPanel derivationId={derivationId} actions={d.actions} />

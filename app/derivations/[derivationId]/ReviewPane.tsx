@@ -32,11 +32,14 @@ export function ReviewPane({
   derivationId,
   user,
   canEdit,
+  textShown = true,
   children,
 }: {
   derivationId: string;
   user: { id: string; name: string };
   canEdit: boolean;
+  /** The text is on the page: the margin is asked for then, not while the text and its code load. */
+  textShown?: boolean;
   children: ReactNode;
 }) {
   const queryClient = useQueryClient();
@@ -45,6 +48,7 @@ export function ReviewPane({
     queryKey: key,
     queryFn: () => fetchJson<ReviewWire>(`/api/derivations/${derivationId}/review`),
     refetchInterval: QUIET_REFRESH_MS,
+    enabled: textShown,
   });
   const [main, setMain] = useState<HTMLElement | null>(null);
   const [selected, setSelected] = useState<string | null>(null);
