@@ -1,0 +1,253 @@
+// Where the checked-steps page spends its main thread (a tool beside `npm run bench:steps`, for
+// finding costs, not for figures): the demo derivation grown as in the benchmark, then one load
+// and a few keystrokes in Chromium under the CPU profiler. Prints each task over PROFILE_TASK_MS
+// (default 40 ms) with the functions that took its time, and writes the profiles to
+// PROFILE_DIR (default /tmp) for DevTools. A build without mangling names the functions:
+// `MARGINALIA_DIST_DIR=.next-profile npx next build --no-mangling`, then
+// `MARGINALIA_DIST_DIR=.next-profile npx tsx tests/bench/steps.profile.ts`.
+import { writeFileSync } from 'node:fs';
+import path from 'node:path';
+import type { Browser, CDPSession, Page } from 'playwright-core';
+import { readDocument, type DocNode } from '../../flow/document';
+import { demoSessions, launchBrowser, startServer } from '../helpers';
+import { connectClient } from '../integration/collabClients';
+import { appendBlocks } from '../integration/checksDocument';
+import { growDocument, TARGET_CLAIMS, TARGET_STEPS } from './stepsDocument';
+
+const TASK_MS = Number(process.env.PROFILE_TASK_MS ?? 40);
+const OUT = process.env.PROFILE_DIR ?? '/tmp';
+const KEYS = Number(process.env.PROFILE_KEYSTROKES ?? 4);
+/** PROFILE_TRACE=1: a performance trace (style, layout, paint in each long task) instead of the CPU profile. */
+const TRACE = process.env.PROFILE_TRACE === '1';
+
+interface ProfileNode {
+  id: number;
+  callFrame: { functionName: string; url: string; lineNumber: number; columnNumber: number };
+  children?: number[];
+}
+interface Profile {
+  nodes: ProfileNode[];
+  startTime: number;
+  endTime: number;
+  samples: number[];
+  timeDeltas: number[];
+}
+
+function frameName(node: ProfileNode): string {
+  const { functionName, url, lineNumber } = node.callFrame;
+  const file = url ? url.split('/').pop()!.split('?')[0] : '';
+  return `${functionName || '(anonymous)'}${file ? ` ${file}:${lineNumber + 1}` : ''}`;
+}
+
+/** Tasks (runs of samples that are not idle) over TASK_MS, with their top functions by self and total time. */
+function summarise(profile: Profile, label: string): void {
+  const byId = new Map(profile.nodes.map((n) => [n.id, n]));
+  const parent = new Map<number, number>();
+  for (const node of profile.nodes) for (const child of node.children ?? []) parent.set(child, node.id);
+  const times: number[] = [];
+  let t = profile.startTime;
+  for (const delta of profile.timeDeltas) times.push((t += delta));
+  const idle = (id: number) => byId.get(id)!.callFrame.functionName === '(idle)';
+  const tasks: { from: number; to: number }[] = [];
+  let start = -1;
+  for (let i = 0; i < profile.samples.length; i++) {
+    if (!idle(profile.samples[i]!)) {
+      if (start < 0) start = i;
+    } else if (start >= 0) {
+      tasks.push({ from: start, to: i });
+      start = -1;
+    }
+  }
+  if (start >= 0) tasks.push({ from: start, to: profile.samples.length });
+  console.log(`\n== ${label}: ${((profile.endTime - profile.startTime) / 1000).toFixed(0)} ms profiled`);
+  for (const task of tasks) {
+    const ms = (times[task.to - 1]! - times[task.from]!) / 1000;
+    if (ms < TASK_MS) continue;
+    const self = new Map<string, number>();
+    const total = new Map<string, number>();
+    for (let i = task.from; i < task.to; i++) {
+      const dt = ((times[i + 1] ?? times[i]!) - times[i]!) / 1000;
+      const leaf = byId.get(profile.samples[i]!)!;
+      self.set(frameName(leaf), (self.get(frameName(leaf)) ?? 0) + dt);
+      const seen = new Set<string>();
+      for (let id: number | undefined = leaf.id; id !== undefined; id = parent.get(id)) {
+        const name = frameName(byId.get(id)!);
+        if (seen.has(name)) continue;
+        seen.add(name);
+        total.set(name, (total.get(name) ?? 0) + dt);
+      }
+    }
+    const top = (m: Map<string, number>, n: number) =>
+      [...m].sort((a, b) => b[1] - a[1]).slice(0, n).map(([name, v]) => `      ${v.toFixed(1).padStart(7)} ms  ${name}`).join('\n');
+    console.log(`  task at ${((times[task.from]! - profile.startTime) / 1000).toFixed(0)} ms, ${ms.toFixed(0)} ms`);
+    console.log(`    self:\n${top(self, 12)}`);
+    console.log(`    total:\n${top(total, 30)}`);
+  }
+}
+
+interface TraceEvent {
+  name: string;
+  ph: string;
+  ts: number;
+  dur?: number;
+  tid: number;
+  pid: number;
+  args?: { data?: { stackTrace?: { functionName: string; url: string; lineNumber: number }[] }; beginData?: { stackTrace?: { functionName: string; url: string; lineNumber: number }[] } };
+}
+
+/** The browser's own work (style, layout, paint) inside each main-thread task over TASK_MS. */
+function summariseTrace(events: TraceEvent[], label: string): void {
+  const main = events.find((e) => e.name === 'thread_name' && (e as unknown as { args: { name: string } }).args.name === 'CrRendererMain');
+  if (!main) return;
+  const onMain = events.filter((e) => e.tid === main.tid && e.pid === main.pid && e.ph === 'X' && typeof e.dur === 'number');
+  const tasks = onMain.filter((e) => e.name === 'RunTask' && e.dur! / 1000 >= TASK_MS);
+  const start = Math.min(...onMain.map((e) => e.ts));
+  console.log(`\n== ${label}: browser work inside tasks over ${TASK_MS} ms`);
+  const kinds = ['UpdateLayoutTree', 'Layout', 'PrePaint', 'Paint', 'Layerize', 'Commit', 'HitTest', 'ParseHTML', 'EvaluateScript', 'FunctionCall', 'TimerFire', 'FireAnimationFrame', 'EventDispatch', 'v8.compile', 'MajorGC', 'MinorGC', 'IntersectionObserverController::computeIntersections', 'ResizeObserverController::DeliverObservations'];
+  for (const task of tasks) {
+    const inside = onMain.filter((e) => e !== task && e.ts >= task.ts && e.ts + e.dur! <= task.ts + task.dur!);
+    const sums = new Map<string, number>();
+    for (const e of inside) if (kinds.includes(e.name)) sums.set(e.name, (sums.get(e.name) ?? 0) + e.dur! / 1000);
+    const parts = [...sums].sort((a, b) => b[1] - a[1]).map(([n, v]) => `${n} ${v.toFixed(0)}`).join(', ');
+    console.log(`  task at ${((task.ts - start) / 1000).toFixed(0)} ms, ${(task.dur! / 1000).toFixed(0)} ms: ${parts}`);
+    for (const e of inside) {
+      if ((e.name === 'Layout' || e.name === 'UpdateLayoutTree') && e.dur! / 1000 >= 5) {
+        const stack = e.args?.beginData?.stackTrace ?? e.args?.data?.stackTrace;
+        const where = stack?.slice(0, 4).map((f) => `${f.functionName || '(anonymous)'} ${f.url.split('/').pop()}:${f.lineNumber}`).join(' < ');
+        console.log(`      ${e.name} ${(e.dur! / 1000).toFixed(0)} ms${where ? ` forced by ${where}` : ''}`);
+      }
+    }
+  }
+}
+
+async function traced<T>(browser: Browser, page: Page, label: string, run: () => Promise<T>): Promise<T> {
+  await browser.startTracing(page, { categories: ['devtools.timeline', 'disabled-by-default-devtools.timeline', 'disabled-by-default-devtools.timeline.stack', 'v8'] });
+  const value = await run();
+  const buffer = await browser.stopTracing();
+  const file = path.join(OUT, `marginalia-${label.replace(/\W+/g, '-')}.trace.json`);
+  writeFileSync(file, buffer);
+  const parsed = JSON.parse(buffer.toString()) as { traceEvents: TraceEvent[] } | TraceEvent[];
+  summariseTrace(Array.isArray(parsed) ? parsed : parsed.traceEvents, `${label} (${file})`);
+  return value;
+}
+
+async function profiled<T>(cdp: CDPSession, label: string, run: () => Promise<T>): Promise<T> {
+  if (TRACE) return run();
+  await cdp.send('Profiler.enable');
+  await cdp.send('Profiler.setSamplingInterval', { interval: 200 });
+  await cdp.send('Profiler.start');
+  const value = await run();
+  const { profile } = (await cdp.send('Profiler.stop')) as unknown as { profile: Profile };
+  const file = path.join(OUT, `marginalia-${label.replace(/\W+/g, '-')}.cpuprofile`);
+  writeFileSync(file, JSON.stringify(profile));
+  summarise(profile, `${label} (${file})`);
+  return value;
+}
+
+async function marks(page: Page): Promise<void> {
+  const entries = await page.evaluate(() =>
+    [...performance.getEntriesByType('mark'), ...performance.getEntriesByType('navigation'), ...performance.getEntriesByType('paint')].map((e) => {
+      const nav = e as PerformanceNavigationTiming;
+      return { name: e.name || e.entryType, at: e.entryType === 'navigation' ? nav.responseEnd : e.startTime, extra: e.entryType === 'navigation' ? `dcl ${nav.domContentLoadedEventEnd.toFixed(0)}` : '' };
+    }),
+  );
+  for (const e of entries.sort((a, b) => a.at - b.at)) console.log(`  ${e.at.toFixed(0).padStart(6)} ms  ${e.name} ${e.extra}`);
+  // What the page fetched, and when (scripts, the API, workers): the waterfall before the text shows.
+  const resources = await page.evaluate(() =>
+    (performance.getEntriesByType('resource') as PerformanceResourceTiming[]).map((r) => ({ name: r.name.replace(location.origin, ''), start: r.startTime, end: r.responseEnd, size: r.encodedBodySize, kind: r.initiatorType })),
+  );
+  for (const r of resources.filter((r) => r.end - r.start > 30 || r.kind !== 'script').sort((a, b) => a.start - b.start)) {
+    console.log(`  ${r.start.toFixed(0).padStart(6)}-${r.end.toFixed(0).padEnd(6)} ms  ${r.kind} ${r.name.slice(0, 90)} ${(r.size / 1024).toFixed(0)} kB`);
+  }
+}
+
+async function main(): Promise<void> {
+  const server = await startServer({ demo: true });
+  const browser = await launchBrowser();
+  try {
+    const demo = await demoSessions(server.url);
+    const client = connectClient(server.url, demo.derivationId, { cookie: demo.cookies.author });
+    await client.synced();
+    const { yXmlFragmentToProsemirrorJSON } = await import('@tiptap/y-tiptap');
+    const body = yXmlFragmentToProsemirrorJSON(client.doc.getXmlFragment('body')) as DocNode;
+    const grown = growDocument({ steps: body.content?.length ?? 0, claims: readDocument(body).claims.length });
+    appendBlocks(client.doc, grown.blocks);
+    for (;;) {
+      const answer = await demo.as.author.get<{ pending: boolean; claims: unknown[] }>(`/api/derivations/${demo.derivationId}/checks`);
+      if (!answer.body.pending && answer.body.claims.length >= TARGET_CLAIMS) break;
+      await new Promise((resolve) => setTimeout(resolve, 250));
+    }
+    client.destroy();
+
+    const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
+    const [name] = demo.cookies.author.split('=');
+    await context.addCookies([{ name: name!, value: demo.cookies.author.slice(name!.length + 1), url: server.url }]);
+    const page = await context.newPage();
+    const cdp = await context.newCDPSession(page);
+    const measure = <T,>(label: string, run: () => Promise<T>) => (TRACE ? traced(browser, page, label, run) : profiled(cdp, label, run));
+    await measure('load', async () => {
+      await page.goto(`${server.url}/derivations/${demo.derivationId}`);
+      await page.waitForFunction(
+        (steps) => {
+          const text = document.querySelector<HTMLElement>('.derivation-text');
+          return text !== null && text.checkVisibility() && text.childElementCount >= steps;
+        },
+        TARGET_STEPS,
+        { timeout: 60_000, polling: 'raf' },
+      );
+      console.log(`document shown at ${(await page.evaluate(() => performance.now())).toFixed(0)} ms`);
+      await page.waitForFunction(
+        (claims) => {
+          const blocks = document.querySelectorAll('.derivation-text .claim-block');
+          return blocks.length >= claims && Array.from(blocks).every((b) => ['holds', 'fails', 'inconclusive', 'invalid'].includes((b as HTMLElement).dataset.verdict ?? ''));
+        },
+        TARGET_CLAIMS,
+        { timeout: 120_000, polling: 'raf' },
+      );
+      console.log(`every verdict at ${(await page.evaluate(() => performance.now())).toFixed(0)} ms`);
+      await page.waitForTimeout(1500);
+    });
+    await marks(page);
+    const sizes = await page.evaluate(() => {
+      const text = document.querySelector('.derivation-text')!;
+      const byKind = new Map<string, number>();
+      for (const child of text.children) {
+        const kind = `${child.tagName.toLowerCase()}.${child.classList[0] ?? ''}`;
+        byKind.set(kind, (byKind.get(kind) ?? 0) + child.querySelectorAll('*').length + 1);
+      }
+      return { page: document.querySelectorAll('*').length, text: text.querySelectorAll('*').length, byKind: [...byKind].sort((a, b) => b[1] - a[1]).slice(0, 8) };
+    });
+    console.log(`elements: ${sizes.page} on the page, ${sizes.text} in the text; by top-level kind: ${sizes.byKind.map(([k, n]) => `${k} ${n}`).join(', ')}`);
+
+    const rows = page.locator(`[data-step-id="${grown.editedFlow}"] [data-row="parameter"]`);
+    let field = rows.first().locator('[data-field$=".value"] .block-field-text');
+    for (let i = 0; i < (await rows.count()); i++) {
+      if (((await rows.nth(i).locator('[data-field$=".name"] .block-field-text').textContent()) ?? '').trim() === 'eps') field = rows.nth(i).locator('[data-field$=".value"] .block-field-text');
+    }
+    await field.click();
+    await page.keyboard.press('End');
+    await page.waitForTimeout(500);
+    await measure('keystrokes', async () => {
+      for (let k = 0; k < KEYS; k++) {
+        const pressed = await page.evaluate(() => performance.now());
+        await page.keyboard.press(String(k + 3));
+        await page.waitForTimeout(1200);
+        // When the claims were read and the verdicts settled, after this keystroke.
+        const after = await page.evaluate(
+          (t0) => performance.getEntriesByType('mark').filter((m) => m.startTime > t0 && m.name.startsWith('marginalia:')).map((m) => `${m.name.replace('marginalia:', '')} +${(m.startTime - t0).toFixed(0)}`),
+          pressed,
+        );
+        console.log(`  keystroke ${k + 1}: ${after.join(', ')}`);
+      }
+    });
+    await context.close();
+  } finally {
+    await browser.close();
+    await server.stop();
+  }
+}
+
+main().catch((error: unknown) => {
+  console.error(error);
+  process.exit(1);
+});
