@@ -27,9 +27,6 @@ export interface WhiteboardProps {
   onTextShown?: () => void;
 }
 
-/** The origin of the server's copy applied to the document before the connection syncs. */
-const SERVER_COPY = 'server copy';
-
 export default function Whiteboard({ derivationId, title, user, role, canEdit, onRoleChanged, onTextShown }: WhiteboardProps) {
   const session = useCollabSession({ derivationId, user: { ...user, role }, onRoleChanged });
   const people = usePresence(session?.provider.awareness ?? null, user.id);
@@ -48,18 +45,22 @@ export default function Whiteboard({ derivationId, title, user, role, canEdit, o
   const [serverCopy] = useState(() => takeServerCopy(derivationId));
   const [copiedInto, setCopiedInto] = useState<Y.Doc | null>(null);
   const doc = session?.doc ?? null;
+  const provider = session?.provider ?? null;
   useEffect(() => {
-    if (!doc || !serverCopy) return;
+    if (!doc || !provider || !serverCopy) return;
     let current = true;
     void serverCopy.then((state) => {
       if (!current || !state || doc.isDestroyed) return;
-      Y.applyUpdate(doc, state, SERVER_COPY);
+      // Applied as if the connection brought it: the provider does not send it back to the server
+      // (a whole copy sent back would count against the document size limit, and a reader's would
+      // be logged as a dropped edit); this device's copy still stores it.
+      Y.applyUpdate(doc, state, provider);
       setCopiedInto(doc);
     });
     return () => {
       current = false;
     };
-  }, [doc, serverCopy]);
+  }, [doc, provider, serverCopy]);
 
   // Performance marks for the benchmark's profile: the editor mounted, the text ready to show.
   const ready = (session?.ready ?? false) || (doc !== null && copiedInto === doc);
