@@ -20,6 +20,7 @@ import {
   type ScaleFunction,
 } from 'recharts';
 import { LABEL_LINE, textMeasurer, wrapLabel } from './axisLabel';
+import { PLOT_ACCENT, PLOT_INK } from './colours';
 import { decadeLabel, decadeTicks, domainOf, linearAxis, readoutNumber, tickLabel, type Domain } from './axes';
 import { isNavigationKey, nearestPoint, stepPoint, type ActivePoint, type PixelGroups } from './navigation';
 import { downloadText, standaloneSvg, svgFileName } from './svgFile';
@@ -44,8 +45,7 @@ export interface PlotFrameProps {
   actions?: ReactNode;
 }
 
-export const PLOT_INK = '#1d1b18';
-export const PLOT_ACCENT = '#1f5f5b';
+export { PLOT_ACCENT, PLOT_INK };
 const SOFT = '#4a4640';
 const FAINT = '#8a857c';
 const GRID = '#e4e0d6';

@@ -1,4 +1,6 @@
-export { PlotFrame, PLOT_ACCENT, PLOT_INK, type PlotFrameProps } from './PlotFrame';
+export { PlotFrame, preloadPlotFrame } from './LazyPlotFrame';
+export type { PlotFrameProps } from './PlotFrame';
+export { PLOT_ACCENT, PLOT_INK } from './colours';
 export type { AxisScale, MarkerShape, PlotAxis, PlotMarker, PlotPoint, PlotSeries, ReadoutEntry, SeriesLook } from './types';
 export { decadeLabel, decadeTicks, domainOf, readoutNumber, tickLabel, type Domain } from './axes';
 export { standaloneSvg, svgFileName, downloadText } from './svgFile';
