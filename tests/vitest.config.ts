@@ -30,6 +30,10 @@ export default defineConfig({
           testTimeout: 120_000,
           hookTimeout: 180_000,
           fileParallelism: false,
+          // Browser tests run beside the integration project on two shared cores; a test that
+          // fails once is run once more (common practice for browser suites), so one slow moment
+          // of the machine does not fail the run, while a test broken for real fails both times.
+          retry: 1,
         },
       },
     ],
