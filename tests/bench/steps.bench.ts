@@ -13,7 +13,7 @@ import { readDocument, type DocNode } from '../../flow/document';
 import { demoSessions, launchBrowser, startServer, type DemoSessions, type StartedServer } from '../helpers';
 import { connectClient } from '../integration/collabClients';
 import { appendBlocks } from '../integration/checksDocument';
-import { growDocument, TARGET_CLAIMS, TARGET_STEPS } from './stepsDocument';
+import { growDocument, TARGET_CLAIMS, TARGET_STEPS, waitForDocumentShown, waitForEveryVerdict } from './stepsDocument';
 
 const LOADS = Number(process.env.BENCH_LOADS ?? 7);
 const KEYSTROKES = Number(process.env.BENCH_KEYSTROKES ?? 15);
@@ -85,25 +85,9 @@ async function loadOnce(browser: Browser, server: StartedServer, demo: DemoSessi
   const context = await signedInContext(browser, server, demo.cookies.author);
   const page = await context.newPage();
   await page.goto(`${server.url}/derivations/${demo.derivationId}`);
-  // Shown: every step in the editor, and the editor on screen (not hidden while the text loads).
-  await page.waitForFunction(
-    (steps) => {
-      const text = document.querySelector<HTMLElement>('.derivation-text');
-      return text !== null && text.checkVisibility() && text.childElementCount >= steps;
-    },
-    TARGET_STEPS,
-    { timeout: 60_000, polling: 'raf' },
-  );
+  await waitForDocumentShown(page);
   const documentShown = await page.evaluate(() => performance.now());
-  await page.waitForFunction(
-    (claims) => {
-      const blocks = document.querySelectorAll('.derivation-text section[data-claim-block], .derivation-text .claim-block');
-      if (blocks.length < claims) return false;
-      return Array.from(blocks).every((b) => ['holds', 'fails', 'inconclusive', 'invalid'].includes((b as HTMLElement).dataset.verdict ?? ''));
-    },
-    TARGET_CLAIMS,
-    { timeout: 120_000, polling: 'raf' },
-  );
+  await waitForEveryVerdict(page);
   const everyVerdict = await page.evaluate(() => performance.now());
   const paint = await page.evaluate(() => performance.getEntriesByName('first-contentful-paint')[0]?.startTime ?? NaN);
   const longestTask = await page.evaluate(() => Math.max(0, ...(window as unknown as { __longTasks: { duration: number }[] }).__longTasks.map((t) => t.duration)));

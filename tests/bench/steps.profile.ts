@@ -12,7 +12,7 @@ import { readDocument, type DocNode } from '../../flow/document';
 import { demoSessions, launchBrowser, startServer } from '../helpers';
 import { connectClient } from '../integration/collabClients';
 import { appendBlocks } from '../integration/checksDocument';
-import { growDocument, TARGET_CLAIMS, TARGET_STEPS } from './stepsDocument';
+import { growDocument, TARGET_CLAIMS, TARGET_STEPS, waitForDocumentShown, waitForEveryVerdict } from './stepsDocument';
 
 const TASK_MS = Number(process.env.PROFILE_TASK_MS ?? 40);
 const OUT = process.env.PROFILE_DIR ?? '/tmp';
@@ -187,23 +187,9 @@ async function main(): Promise<void> {
     const measure = <T,>(label: string, run: () => Promise<T>) => (TRACE ? traced(browser, page, label, run) : profiled(cdp, label, run));
     await measure('load', async () => {
       await page.goto(`${server.url}/derivations/${demo.derivationId}`);
-      await page.waitForFunction(
-        (steps) => {
-          const text = document.querySelector<HTMLElement>('.derivation-text');
-          return text !== null && text.checkVisibility() && text.childElementCount >= steps;
-        },
-        TARGET_STEPS,
-        { timeout: 60_000, polling: 'raf' },
-      );
+      await waitForDocumentShown(page);
       console.log(`document shown at ${(await page.evaluate(() => performance.now())).toFixed(0)} ms`);
-      await page.waitForFunction(
-        (claims) => {
-          const blocks = document.querySelectorAll('.derivation-text .claim-block');
-          return blocks.length >= claims && Array.from(blocks).every((b) => ['holds', 'fails', 'inconclusive', 'invalid'].includes((b as HTMLElement).dataset.verdict ?? ''));
-        },
-        TARGET_CLAIMS,
-        { timeout: 120_000, polling: 'raf' },
-      );
+      await waitForEveryVerdict(page);
       console.log(`every verdict at ${(await page.evaluate(() => performance.now())).toFixed(0)} ms`);
       await page.waitForTimeout(1500);
     });

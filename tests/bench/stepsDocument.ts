@@ -5,6 +5,7 @@
 import { randomUUID } from 'node:crypto';
 import { claimBlockNode, flowBlockNode, type DocNode } from '../../flow/document';
 import { plotBlockNode } from '../../editor/blocks/plotNodes';
+import type { Page } from 'playwright-core';
 
 export const TARGET_STEPS = 200;
 export const TARGET_CLAIMS = 40;
@@ -152,4 +153,29 @@ export function growDocument(existing: { steps: number; claims: number }): Grown
     k++;
   }
   return { blocks, editedFlow, dependentClaims };
+}
+
+/** Waits until every step is in the editor and the editor is on screen (not hidden while the text loads). */
+export async function waitForDocumentShown(page: Page): Promise<void> {
+  await page.waitForFunction(
+    (steps) => {
+      const text = document.querySelector<HTMLElement>('.derivation-text');
+      return text !== null && text.checkVisibility() && text.childElementCount >= steps;
+    },
+    TARGET_STEPS,
+    { timeout: 60_000, polling: 'raf' },
+  );
+}
+
+/** Waits until every claim block in the editor shows a verdict. */
+export async function waitForEveryVerdict(page: Page): Promise<void> {
+  await page.waitForFunction(
+    (claims) => {
+      const blocks = document.querySelectorAll('.derivation-text section[data-claim-block], .derivation-text .claim-block');
+      if (blocks.length < claims) return false;
+      return Array.from(blocks).every((b) => ['holds', 'fails', 'inconclusive', 'invalid'].includes((b as HTMLElement).dataset.verdict ?? ''));
+    },
+    TARGET_CLAIMS,
+    { timeout: 120_000, polling: 'raf' },
+  );
 }
