@@ -1,5 +1,5 @@
 import type { Metadata } from 'next';
-import Link from 'next/link';
+import { IntentLink } from '@/components/IntentLink';
 import type { ReactNode } from 'react';
 import '@fontsource/eb-garamond/400.css';
 import '@fontsource/eb-garamond/400-italic.css';
@@ -28,19 +28,19 @@ export default async function RootLayout({ children }: { children: ReactNode }) 
         </a>
         <header className="border-b border-rule">
           <nav aria-label="Main" className="mx-auto flex max-w-5xl items-baseline gap-6 px-6 py-3">
-            <Link href={user ? '/groups' : '/'} className="text-xl tracking-[0.08em] text-ink [font-variant:small-caps]">
+            <IntentLink href={user ? '/groups' : '/'} className="text-xl tracking-[0.08em] text-ink [font-variant:small-caps]">
               Marginalia
-            </Link>
+            </IntentLink>
             {user && (
-              <Link href="/groups" className="text-ink-soft hover:text-ink">
+              <IntentLink href="/groups" className="text-ink-soft hover:text-ink">
                 Groups
-              </Link>
+              </IntentLink>
             )}
             <span className="flex-1" />
             {mailbox && (
-              <Link href="/mailbox" className="text-ink-soft hover:text-ink">
+              <IntentLink href="/mailbox" className="text-ink-soft hover:text-ink">
                 Mailbox
-              </Link>
+              </IntentLink>
             )}
             {user ? (
               <>
@@ -51,12 +51,12 @@ export default async function RootLayout({ children }: { children: ReactNode }) 
               </>
             ) : (
               <>
-                <Link href="/signin" className="text-ink-soft hover:text-ink">
+                <IntentLink href="/signin" className="text-ink-soft hover:text-ink">
                   Sign in
-                </Link>
-                <Link href="/register" className="text-ink-soft hover:text-ink">
+                </IntentLink>
+                <IntentLink href="/register" className="text-ink-soft hover:text-ink">
                   Register
-                </Link>
+                </IntentLink>
               </>
             )}
           </nav>

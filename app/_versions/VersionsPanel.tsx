@@ -3,7 +3,7 @@
 // saving the working copy as a named version, the lead's lock (refused with the claims that do
 // not hold, or done with its SHA-256), and comparing two versions.
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import Link from 'next/link';
+import { IntentLink } from '@/components/IntentLink';
 import { useRouter } from 'next/navigation';
 import { useState } from 'react';
 import { StatusWord } from '@/components/StatusWord';
@@ -58,9 +58,9 @@ export function VersionsPanel({ derivationId, actions }: Props) {
         <ol className="divide-y divide-rule/70">
           {list.map((v) => (
             <li key={v.id} className="flex flex-wrap items-baseline gap-x-4 gap-y-1 py-1.5" data-version={v.number}>
-              <Link className="text-accent underline-offset-2 hover:underline" href={`/derivations/${derivationId}/versions/${v.id}`}>
+              <IntentLink className="text-accent underline-offset-2 hover:underline" href={`/derivations/${derivationId}/versions/${v.id}`}>
                 Version {v.number}: {v.name}
-              </Link>
+              </IntentLink>
               <span className="text-sm text-ink-soft">
                 <When iso={v.createdAt} />
                 {v.createdBy ? `, ${v.createdBy.name}` : ''}
@@ -178,9 +178,9 @@ export function VersionsPanel({ derivationId, actions }: Props) {
             <div className="mt-3" data-lock-done>
               <Notice kind="done">
                 Locked as{' '}
-                <Link className="underline" href={`/derivations/${derivationId}/versions/${lock.data.version.id}`}>
+                <IntentLink className="underline" href={`/derivations/${derivationId}/versions/${lock.data.version.id}`}>
                   version {lock.data.version.number}
-                </Link>
+                </IntentLink>
                 : all {lock.data.version.summary.claims} claims hold.
                 <br />
                 SHA-256 <span className="break-all font-mono text-sm" data-lock-hash>{lock.data.version.locked?.sha256}</span>

@@ -2,7 +2,7 @@
 // The derivation's page: its heading, a line of facts, and the whiteboard (the shared text).
 import { useQuery, useQueryClient } from '@tanstack/react-query';
 import dynamic from 'next/dynamic';
-import Link from 'next/link';
+import { IntentLink } from '@/components/IntentLink';
 import { useCallback, useState } from 'react';
 import { ClaimCount } from '@/components/StatusWord';
 import { Loading, Notice, PageTitle, When } from '@/components/ui';
@@ -43,9 +43,9 @@ export function DerivationPage({ derivationId, user }: { derivationId: string; u
     <article>
       <PageTitle
         eyebrow={
-          <Link href={`/groups/${d.groupId}`} className="hover:text-ink">
+          <IntentLink href={`/groups/${d.groupId}`} className="hover:text-ink">
             {d.groupName}
-          </Link>
+          </IntentLink>
         }
       >
         {d.title}

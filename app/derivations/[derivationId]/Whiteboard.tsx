@@ -1,6 +1,6 @@
 'use client';
 // The derivation's whiteboard: who is here, the connection state, and the shared text.
-import Link from 'next/link';
+import { IntentLink } from '@/components/IntentLink';
 import { useEffect, useMemo, useState } from 'react';
 import type { Editor } from '@tiptap/core';
 import { ConnectionState } from '@/components/ConnectionState';
@@ -90,9 +90,9 @@ export default function Whiteboard({ derivationId, title, user, role, canEdit, o
             {final.code === closeCodes.sessionExpired && (
               <>
                 Your changes are kept on this device.{' '}
-                <Link className="underline" href={`/signin?callbackUrl=${encodeURIComponent(`/derivations/${derivationId}`)}`}>
+                <IntentLink className="underline" href={`/signin?callbackUrl=${encodeURIComponent(`/derivations/${derivationId}`)}`}>
                   Sign in again
-                </Link>
+                </IntentLink>
               </>
             )}
           </Notice>
