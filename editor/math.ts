@@ -6,7 +6,9 @@ import { InputRule, Node, textblockTypeInputRule, type Editor, type NodeViewRend
 import type { Node as ProseMirrorNode, NodeType } from '@tiptap/pm/model';
 import { Plugin, PluginKey, TextSelection, type EditorState } from '@tiptap/pm/state';
 import { Decoration, DecorationSet } from '@tiptap/pm/view';
-import { typeset } from './mathRender';
+import { drawSoon } from './blocks/typesetQueue';
+import { katexNow } from './katex';
+import { showPending, typeset } from './mathRender';
 
 declare module '@tiptap/core' {
   interface Commands<ReturnType> {
@@ -41,6 +43,18 @@ function editingDecorations(state: EditorState, editor: Editor): DecorationSet {
   return DecorationSet.empty;
 }
 
+/** Formulas typeset at once when one task builds many (opening a long derivation, a long paste):
+ * about a screenful. The rest show their source and are typeset in the next frames, top first. */
+const TYPESET_AT_ONCE = 40;
+let builtThisTask = 0;
+
+/** Whether this formula is past the first screenful built in the current task (or KaTeX is not there yet). */
+function builtInCrowd(): boolean {
+  if (builtThisTask === 0) queueMicrotask(() => (builtThisTask = 0));
+  builtThisTask++;
+  return builtThisTask > TYPESET_AT_ONCE || katexNow() === null;
+}
+
 function mathNodeView(display: boolean): NodeViewRenderer {
   return ({ node, editor, getPos }) => {
     let current = node;
@@ -55,12 +69,19 @@ function mathNodeView(display: boolean): NodeViewRenderer {
     dom.append(rendered, source);
 
     let typesetSource: string | null = null;
-    const refresh = () => {
+    const draw = () => {
       const text = current.textContent;
       if (text === typesetSource) return;
-      typesetSource = text;
       const result = typeset(rendered, text, display);
+      if (!result) return drawSoon(rendered, draw);
+      typesetSource = text;
       dom.classList.toggle('math-has-error', !result.ok);
+    };
+    const refresh = () => {
+      if (!builtInCrowd()) return draw();
+      showPending(rendered, current.textContent, display);
+      typesetSource = null;
+      drawSoon(rendered, draw);
     };
     refresh();
 

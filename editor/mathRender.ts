@@ -1,6 +1,6 @@
 // Typesetting a formula with KaTeX into an element. A malformed formula shows KaTeX's own error
 // message and the source it could not read, so nothing the author wrote is hidden.
-import katex from 'katex';
+import { katexNow } from './katex';
 
 const warningIcon =
   '<svg viewBox="0 0 16 16" width="1em" height="1em" fill="none" stroke="currentColor" stroke-width="1.6" ' +
@@ -13,7 +13,16 @@ export interface TypesetResult {
   error?: string;
 }
 
-export function typeset(target: HTMLElement, source: string, display: boolean): TypesetResult {
+/** Shows the source as written until the formula is typeset (KaTeX not there yet, or later frames). */
+export function showPending(target: HTMLElement, source: string, display: boolean): void {
+  const pending = document.createElement('span');
+  pending.className = 'math-pending';
+  pending.textContent = display ? source : `$${source}$`;
+  target.replaceChildren(pending);
+}
+
+/** Typesets `source` into `target`; null (and nothing drawn) while KaTeX has not arrived. */
+export function typeset(target: HTMLElement, source: string, display: boolean): TypesetResult | null {
   if (source.trim() === '') {
     const empty = document.createElement('span');
     empty.className = 'math-empty';
@@ -21,6 +30,8 @@ export function typeset(target: HTMLElement, source: string, display: boolean): 
     target.replaceChildren(empty);
     return { ok: true };
   }
+  const katex = katexNow();
+  if (!katex) return null;
   try {
     katex.render(source, target, {
       displayMode: display,

@@ -10,9 +10,14 @@ import * as Y from 'yjs';
 import { Notice } from '@/components/ui';
 import { DerivationEditor } from '@/editor/DerivationEditor';
 import type { EditorBinding } from '@/editor/extensions';
+import { fetchTextFonts } from '@/editor/fonts';
+import { fetchKatex } from '@/editor/katex';
 import type { LiveChecks } from '@/editor/blocks';
 import type { VersionClaim } from '@/server/versions/types';
 import { StoredEvidenceDrawer, supplyStoredVerdicts } from './StoredEvidence';
+
+void fetchKatex();
+fetchTextFonts();
 
 export type StepMark = 'changed' | 'added' | 'removed' | 'moved';
 

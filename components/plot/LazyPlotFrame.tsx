@@ -3,34 +3,31 @@
 // plot is drawn, not with the page: the whiteboard's code then evaluates sooner and the editor
 // mounts earlier. Until it arrives the frame keeps its place with its caption and an empty box of
 // the drawing's height, so nothing below it moves.
-import { lazy, Suspense } from 'react';
+import { clientModule } from '../clientModule';
 import type { PlotFrameProps } from './PlotFrame';
 
 const DEFAULT_HEIGHT = 340;
 
-let drawing: Promise<{ default: typeof import('./PlotFrame').PlotFrame }> | null = null;
+const drawingCode = clientModule(() => import('./PlotFrame'));
 
 /** Starts fetching the drawing code (once); a page may call it when it expects a plot soon. */
-export function preloadPlotFrame(): Promise<{ default: typeof import('./PlotFrame').PlotFrame }> {
-  drawing ??= import('./PlotFrame').then((m) => ({ default: m.PlotFrame }));
-  return drawing;
+export function preloadPlotFrame(): void {
+  void drawingCode.fetch();
 }
 
-const PlotFrameDrawing = lazy(preloadPlotFrame);
-
-function PlotFramePlaceholder({ title, height }: Pick<PlotFrameProps, 'title' | 'height'>) {
+function PlotFramePlaceholder({ title, height, failed }: Pick<PlotFrameProps, 'title' | 'height'> & { failed: boolean }) {
   return (
-    <figure className="my-3" aria-busy="true" data-plot-frame-loading="">
+    <figure className="my-3" aria-busy={!failed} data-plot-frame-loading="">
       <figcaption className="mb-1 text-ink">{title}</figcaption>
-      <div style={{ height: height ?? DEFAULT_HEIGHT }} />
+      <div style={{ height: height ?? DEFAULT_HEIGHT }} className="flex items-center justify-center text-sm text-ink-faint">
+        {failed ? 'The drawing code could not be fetched: reload the page to draw the plot.' : null}
+      </div>
     </figure>
   );
 }
 
 export function PlotFrame(props: PlotFrameProps) {
-  return (
-    <Suspense fallback={<PlotFramePlaceholder title={props.title} height={props.height} />}>
-      <PlotFrameDrawing {...props} />
-    </Suspense>
-  );
+  const { module: drawing, failed } = drawingCode.use();
+  if (!drawing) return <PlotFramePlaceholder title={props.title} height={props.height} failed={failed} />;
+  return <drawing.PlotFrame {...props} />;
 }

@@ -7,7 +7,8 @@ import type { Node as ProseMirrorNode } from '@tiptap/pm/model';
 import type { BlockProblem, CheckGroup, DocNode } from '@/flow/document';
 import type { BlockPreviews, Preview } from '@/flow/document/preview';
 import type { ClaimFile, ClaimResult } from '@/flow/types';
-import { CheckClient, mark, type CheckState } from '../worker/checkClient';
+import { mark } from '@/components/performanceMark';
+import { CheckClient, type CheckState } from '../worker/checkClient';
 import type { CheckItem, ClaimInfo, FieldAnswer, FieldRequest, FlowInfo, ImportAnswer, Reading, WorkerLike } from '../worker/protocol';
 import { readBlocks } from '../worker/reading';
 

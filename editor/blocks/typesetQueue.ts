@@ -1,19 +1,21 @@
-// Typesetting field previews a few at a time, so that opening a long derivation (hundreds of
-// fields) or a reading that changes many previews never blocks the page for long: each frame
-// typesets for at most a few milliseconds, then yields.
-import katex from 'katex';
+// Typesetting a few formulas at a time, so that opening a long derivation (hundreds of fields and
+// formulas) or a reading that changes many previews never blocks the page for long: each frame
+// typesets for at most a few milliseconds, then yields. Nothing runs before KaTeX has arrived.
+import { katexNow, whenKatex } from '../katex';
 
 const BUDGET_MS = 6;
-const waiting = new Map<HTMLElement, string>();
+/** What to draw into each element; the latest request for an element wins. Kept in request order. */
+const waiting = new Map<HTMLElement, () => void>();
 let scheduled = false;
 
 const now = () => performance.now();
 
-function typesetNow(target: HTMLElement, tex: string): void {
+/** A field's preview: TeX the solver made, shown as written if KaTeX cannot read it. */
+function typesetPreview(target: HTMLElement, tex: string): void {
+  const katex = katexNow()!;
   try {
     katex.render(tex, target, { displayMode: false, throwOnError: true, strict: 'ignore', trust: false, maxExpand: 1000, output: 'htmlAndMathml' });
   } catch {
-    // TeX the solver made that KaTeX cannot read: show it as written rather than nothing.
     const code = document.createElement('code');
     code.textContent = tex;
     target.replaceChildren(code);
@@ -23,9 +25,9 @@ function typesetNow(target: HTMLElement, tex: string): void {
 function run(): void {
   scheduled = false;
   const start = now();
-  for (const [target, tex] of waiting) {
+  for (const [target, draw] of waiting) {
     waiting.delete(target);
-    if (target.isConnected) typesetNow(target, tex);
+    if (target.isConnected) draw();
     if (now() - start > BUDGET_MS) break;
   }
   if (waiting.size > 0) schedule();
@@ -34,13 +36,18 @@ function run(): void {
 function schedule(): void {
   if (scheduled) return;
   scheduled = true;
-  requestAnimationFrame(run);
+  whenKatex(() => requestAnimationFrame(run));
 }
 
-/** Typesets `tex` into `target` soon (the latest request for a target wins). */
-export function typesetSoon(target: HTMLElement, tex: string): void {
-  waiting.set(target, tex);
+/** Draws into `target` in a coming frame (with KaTeX there); a later request for it replaces this one. */
+export function drawSoon(target: HTMLElement, draw: () => void): void {
+  waiting.set(target, draw);
   schedule();
+}
+
+/** Typesets a field's preview `tex` into `target` soon. */
+export function typesetSoon(target: HTMLElement, tex: string): void {
+  drawSoon(target, () => typesetPreview(target, tex));
 }
 
 export function cancelTypeset(target: HTMLElement): void {

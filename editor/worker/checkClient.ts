@@ -4,6 +4,7 @@
 // undo finds its old results again. A running claim that is no longer wanted (an edit superseded
 // it), that runs past its bound, or that the user cancels is stopped by ending the worker and
 // starting a fresh one; a worker that dies is restarted, and the claim it was checking says so.
+import { mark } from '@/components/performanceMark';
 import { stoppedResult } from './stopped';
 import type { CheckAnswer, CheckItem, WorkerLike } from './protocol';
 import type { ClaimResult } from '@/flow/types';
@@ -268,11 +269,6 @@ export class CheckClient {
     const claim = item.file.claims[0] as { id?: unknown } | undefined;
     return typeof claim?.id === 'string' ? claim.id : item.stepId;
   }
-}
-
-/** A performance mark for benchmarks and profiles (nothing when the platform has none). */
-export function mark(name: string): void {
-  if (typeof performance !== 'undefined' && typeof performance.mark === 'function') performance.mark(name);
 }
 
 function describeWorkerError(event: unknown): string {

@@ -1,7 +1,7 @@
 // In Debian's Chromium: authors write one derivation together and see each other's text, carets
-// and names; a reader's page is read-only; formulas typeset (and a malformed one shows KaTeX's
-// error with its source kept); edits typed while the server is away survive a closed tab and
-// merge when it is back; a removed member is told why the connection closed.
+// and names; a reader's page is read-only; formulas typeset, every one of a long text's too (and a
+// malformed one shows KaTeX's error with its source kept); edits typed while the server is away
+// survive a closed tab and merge when it is back; a removed member is told why the connection closed.
 import { randomBytes } from 'node:crypto';
 import { mkdtemp, rm } from 'node:fs/promises';
 import { createServer } from 'node:net';
@@ -23,6 +23,9 @@ import {
   type DemoSessions,
   type StartedServer,
 } from '../helpers';
+import { connectClient } from '../integration/collabClients';
+import { appendBlocks } from '../integration/checksDocument';
+import type { DocNode } from '../../flow/document';
 
 let server: StartedServer;
 let browser: Browser;
@@ -223,6 +226,40 @@ describe('math', () => {
     await display.locator('.katex-display').waitFor();
     expect(await display.locator('annotation').textContent()).toBe('\\beta(g) = -\\epsilon g + \\frac{3}{2} g^2');
     await lead.locator('.math-display .katex-display').waitFor();
+  });
+  test('a long text opens with every formula typeset, the last ones as the first (a screenful at once, the rest in the next frames)', async () => {
+    const derivationId = await newDerivation('Many formulas');
+    const writer = connectClient(server.url, derivationId, { cookie: demo.cookies.author, origin: server.url });
+    await writer.synced();
+    // 150 steps, each with an inline formula, every fifth followed by a display: far more than one
+    // task typesets at once (editor/math.ts).
+    const steps: DocNode[] = [];
+    for (let i = 1; i <= 150; i++) {
+      steps.push({ type: 'paragraph', content: [{ type: 'text', text: `Step ${i}: ` }, { type: 'mathInline', content: [{ type: 'text', text: `g_{${i}}^2` }] }] });
+      if (i % 5 === 0) steps.push({ type: 'mathDisplay', content: [{ type: 'text', text: `\\beta_{${i}}(g) = -\\epsilon g + g^2` }] });
+    }
+    appendBlocks(writer.doc, steps);
+    // Stored by the server: a second connection reads all of it.
+    await expect
+      .poll(async () => {
+        const check = connectClient(server.url, derivationId, { cookie: demo.cookies.author, origin: server.url });
+        await check.synced();
+        const length = check.doc.getXmlFragment('body').length;
+        check.destroy();
+        return length;
+      })
+      .toBeGreaterThanOrEqual(180);
+    writer.destroy();
+
+    const reader = await signedInPage(demo.cookies.reader);
+    await openDerivation(reader, server.url, derivationId);
+    await reader.locator('.math-inline').nth(149).waitFor({ state: 'attached' });
+    // A moment later nothing is left waiting, and the last formulas are typeset like the first.
+    await reader.waitForFunction(() => document.querySelectorAll('.math-pending').length === 0 && document.querySelectorAll('.math-rendered .katex').length === 180, null, {
+      timeout: 20_000,
+    });
+    expect(await reader.locator('.math-inline').nth(149).locator('annotation').textContent()).toBe('g_{150}^2');
+    expect(await reader.locator('.math-display').nth(29).locator('annotation').textContent()).toBe('\\beta_{150}(g) = -\\epsilon g + g^2');
   });
 });
 

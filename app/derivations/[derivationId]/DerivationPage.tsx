@@ -1,25 +1,28 @@
 'use client';
 // The derivation's page: its heading, a line of facts, and the whiteboard (the shared text).
 import { useQuery, useQueryClient } from '@tanstack/react-query';
-import dynamic from 'next/dynamic';
 import { IntentLink } from '@/components/IntentLink';
-import { useCallback, useState } from 'react';
+import { useCallback, useEffect, useState } from 'react';
+import { clientModule } from '@/components/clientModule';
+import { markOnce } from '@/components/performanceMark';
 import { ClaimCount } from '@/components/StatusWord';
 import { Loading, Notice, PageTitle, When } from '@/components/ui';
 import { VersionsPanel } from '@/app/_versions/VersionsPanel';
+import { fetchTextFonts } from '@/editor/fonts';
+import { fetchKatex } from '@/editor/katex';
 import { fetchJson } from '../../_lib/fetchJson';
 import type { DerivationView, Wire } from '../../_lib/wire';
 import { ReviewPane } from './ReviewPane';
 import { requestServerCopy } from './serverCopy';
 
-// The editor and its connection live in the browser only (Yjs, IndexedDB, websocket). Its code is
-// fetched as soon as this page's code runs, alongside the derivation's facts, not after them.
-const loadWhiteboard = () => import('./Whiteboard');
-if (typeof window !== 'undefined') void loadWhiteboard();
-const Whiteboard = dynamic(loadWhiteboard, {
-  ssr: false,
-  loading: () => <p className="text-ink-faint" role="status">Opening the derivation…</p>,
-});
+// The editor and its connection live in the browser only (Yjs, IndexedDB, websocket). Its code,
+// the text's fonts and KaTeX are fetched as soon as this page's code runs, alongside the facts.
+const whiteboardCode = clientModule(() => import('./Whiteboard'));
+if (typeof window !== 'undefined') {
+  void whiteboardCode.fetch();
+  void fetchKatex();
+  fetchTextFonts();
+}
 
 export function DerivationPage({ derivationId, user }: { derivationId: string; user: { id: string; name: string } }) {
   const queryClient = useQueryClient();
@@ -29,6 +32,11 @@ export function DerivationPage({ derivationId, user }: { derivationId: string; u
     queryKey: ['derivation', derivationId],
     queryFn: () => fetchJson<Wire<DerivationView>>(`/api/derivations/${derivationId}`),
   });
+  const whiteboard = whiteboardCode.use();
+  useEffect(() => {
+    if (derivation.data) markOnce('marginalia:facts-shown');
+  }, [derivation.data]);
+  const Whiteboard = whiteboard.module?.default;
   const [textShown, setTextShown] = useState(false);
   const onTextShown = useCallback(() => setTextShown(true), []);
   const onRoleChanged = useCallback(() => {
@@ -78,16 +86,24 @@ export function DerivationPage({ derivationId, user }: { derivationId: string; u
         </div>
       </dl>
       <ReviewPane derivationId={derivationId} user={user} canEdit={d.actions.includes('editText')} textShown={textShown}>
-        <Whiteboard
-          key={`${derivationId}:${d.role}`}
-          derivationId={derivationId}
-          title={d.title}
-          user={user}
-          role={d.role}
-          canEdit={d.actions.includes('editText')}
-          onRoleChanged={onRoleChanged}
-          onTextShown={onTextShown}
-        />
+        {whiteboard.failed ? (
+          <Notice kind="error">The editor's code could not be fetched. Check the connection and reload the page.</Notice>
+        ) : !Whiteboard ? (
+          <p className="text-ink-faint" role="status">
+            Opening the derivation…
+          </p>
+        ) : (
+          <Whiteboard
+            key={`${derivationId}:${d.role}`}
+            derivationId={derivationId}
+            title={d.title}
+            user={user}
+            role={d.role}
+            canEdit={d.actions.includes('editText')}
+            onRoleChanged={onRoleChanged}
+            onTextShown={onTextShown}
+          />
+        )}
       </ReviewPane>
       <VersionsPanel derivationId={derivationId} actions={d.actions} />
     </article>

@@ -4,6 +4,7 @@ import { IntentLink } from '@/components/IntentLink';
 import { useEffect, useMemo, useState } from 'react';
 import type { Editor } from '@tiptap/core';
 import { ConnectionState } from '@/components/ConnectionState';
+import { mark } from '@/components/performanceMark';
 import { PresenceList } from '@/components/PresenceList';
 import { Notice } from '@/components/ui';
 import { ChecksSidebar } from '@/editor/blocks/ChecksSidebar';
@@ -15,6 +16,8 @@ import { closeCodes } from '@/server/collab/closeReasons';
 import * as Y from 'yjs';
 import { useCollabSession } from './collabSession';
 import { takeServerCopy } from './serverCopy';
+
+const nextTask = <T,>(value: T) => new Promise<T>((resolve) => setTimeout(() => resolve(value), 0));
 
 export interface WhiteboardProps {
   derivationId: string;
@@ -49,12 +52,15 @@ export default function Whiteboard({ derivationId, title, user, role, canEdit, o
   useEffect(() => {
     if (!doc || !provider || !serverCopy) return;
     let current = true;
-    void serverCopy.then((state) => {
+    // In a task of its own: building a long text's views is the page's longest piece of work, and
+    // the editor mounting just before it is another.
+    void serverCopy.then(nextTask).then((state) => {
       if (!current || !state || doc.isDestroyed) return;
       // Applied as if the connection brought it: the provider does not send it back to the server
       // (a whole copy sent back would count against the document size limit, and a reader's would
       // be logged as a dropped edit); this device's copy still stores it.
       Y.applyUpdate(doc, state, provider);
+      mark('marginalia:copy-applied');
       setCopiedInto(doc);
     });
     return () => {
@@ -65,11 +71,14 @@ export default function Whiteboard({ derivationId, title, user, role, canEdit, o
   // Performance marks for the benchmark's profile: the editor mounted, the text ready to show.
   const ready = (session?.ready ?? false) || (doc !== null && copiedInto === doc);
   useEffect(() => {
-    if (editor) performance.mark('marginalia:editor-mounted');
+    if (session) mark('marginalia:session-opened');
+  }, [session?.doc]);
+  useEffect(() => {
+    if (editor) mark('marginalia:editor-mounted');
   }, [editor]);
   useEffect(() => {
     if (!ready) return;
-    performance.mark('marginalia:text-ready');
+    mark('marginalia:text-ready');
     onTextShown?.();
   }, [ready, onTextShown]);
 
