@@ -155,27 +155,41 @@ export function growDocument(existing: { steps: number; claims: number }): Grown
   return { blocks, editedFlow, dependentClaims };
 }
 
-/** Waits until every step is in the editor and the editor is on screen (not hidden while the text loads). */
-export async function waitForDocumentShown(page: Page): Promise<void> {
-  await page.waitForFunction(
+/**
+ * Waits until every step is in the editor and the editor is on screen (not hidden while the text
+ * loads); returns when that was on the page's clock (performance.now()): the end of the first frame
+ * drawn with it, read by a task queued from that frame's animation callback, which runs once the
+ * frame's style, layout and paint are done. Not when the test runner heard of it (a round trip later).
+ */
+export async function waitForDocumentShown(page: Page): Promise<number> {
+  const shownAt = await page.waitForFunction(
     (steps) => {
+      const w = window as unknown as { __shownAt?: number; __shownSeen?: boolean };
+      if (w.__shownAt !== undefined) return w.__shownAt;
       const text = document.querySelector<HTMLElement>('.derivation-text');
-      return text !== null && text.checkVisibility() && text.childElementCount >= steps;
+      if (!w.__shownSeen && text !== null && text.checkVisibility() && text.childElementCount >= steps) {
+        w.__shownSeen = true;
+        setTimeout(() => (w.__shownAt = performance.now()), 0);
+      }
+      return false;
     },
     TARGET_STEPS,
     { timeout: 60_000, polling: 'raf' },
   );
+  return (await shownAt.jsonValue()) as number;
 }
 
-/** Waits until every claim block in the editor shows a verdict. */
-export async function waitForEveryVerdict(page: Page): Promise<void> {
-  await page.waitForFunction(
+/** Waits until every claim block in the editor shows a verdict; returns when that was, on the page's clock. */
+export async function waitForEveryVerdict(page: Page): Promise<number> {
+  const settledAt = await page.waitForFunction(
     (claims) => {
       const blocks = document.querySelectorAll('.derivation-text section[data-claim-block], .derivation-text .claim-block');
       if (blocks.length < claims) return false;
-      return Array.from(blocks).every((b) => ['holds', 'fails', 'inconclusive', 'invalid'].includes((b as HTMLElement).dataset.verdict ?? ''));
+      const all = Array.from(blocks).every((b) => ['holds', 'fails', 'inconclusive', 'invalid'].includes((b as HTMLElement).dataset.verdict ?? ''));
+      return all ? performance.now() : false;
     },
     TARGET_CLAIMS,
     { timeout: 120_000, polling: 'raf' },
   );
+  return (await settledAt.jsonValue()) as number;
 }
