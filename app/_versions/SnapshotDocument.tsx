@@ -16,8 +16,11 @@ import type { LiveChecks } from '@/editor/blocks';
 import type { VersionClaim } from '@/server/versions/types';
 import { StoredEvidenceDrawer, supplyStoredVerdicts } from './StoredEvidence';
 
-void fetchKatex();
-fetchTextFonts();
+// KaTeX and the text's fonts are fetched as this code runs in the browser, before the snapshot arrives.
+if (typeof window !== 'undefined') {
+  void fetchKatex();
+  fetchTextFonts();
+}
 
 export type StepMark = 'changed' | 'added' | 'removed' | 'moved';
 
