@@ -6,17 +6,24 @@ import type Katex from 'katex';
 type KatexModule = typeof Katex;
 
 let loaded: KatexModule | null = null;
-let loading: Promise<KatexModule> | null = null;
+let loading: Promise<KatexModule | null> | null = null;
 const waiting = new Set<() => void>();
 
-/** Starts fetching KaTeX (once per page). */
-export function fetchKatex(): Promise<KatexModule> {
-  loading ??= import('katex').then((module) => {
-    loaded = module.default;
-    for (const run of waiting) run();
-    waiting.clear();
-    return loaded;
-  });
+/** Starts fetching KaTeX (once per page; again after a failed fetch). Null if the fetch failed:
+ * formulas then keep showing their source until a later fetch succeeds. */
+export function fetchKatex(): Promise<KatexModule | null> {
+  loading ??= import('katex').then(
+    (module) => {
+      loaded = module.default;
+      for (const run of waiting) run();
+      waiting.clear();
+      return loaded;
+    },
+    () => {
+      loading = null; // the next formula asks again
+      return null;
+    },
+  );
   return loading;
 }
 

@@ -71,8 +71,8 @@ export default function Whiteboard({ derivationId, title, user, role, canEdit, o
   // Performance marks for the benchmark's profile: the editor mounted, the text ready to show.
   const ready = (session?.ready ?? false) || (doc !== null && copiedInto === doc);
   useEffect(() => {
-    if (session) mark('marginalia:session-opened');
-  }, [session?.doc]);
+    if (doc) mark('marginalia:session-opened');
+  }, [doc]);
   useEffect(() => {
     if (editor) mark('marginalia:editor-mounted');
   }, [editor]);
