@@ -2,7 +2,7 @@
 // member sees both carets, each with its name, and neither name covers the other.
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, test } from 'vitest';
-import { demoAccount, demoSessions, launchBrowser, openDerivation, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
+import { demoAccount, demoSessions, launchBrowser, openDerivation, ownTitle, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
 
 let server: StartedServer;
 let browser: Browser;
@@ -33,7 +33,7 @@ type Box = { x: number; y: number; width: number; height: number };
 const overlaps = (a: Box, b: Box) => a.x < b.x + b.width && b.x < a.x + a.width && a.y < b.y + b.height && b.y < a.y + a.height;
 
 test('two authors’ carets at the same place show both names, one above the other, neither covering the other', async () => {
-  const created = await demo.as.lead.post<{ id: string }>(`/api/groups/${demo.groupId}/derivations`, { title: 'Carets at one place' });
+  const created = await demo.as.lead.post<{ id: string }>(`/api/groups/${demo.groupId}/derivations`, { title: ownTitle('Carets at one place') });
   expect(created.status).toBe(201);
   const derivationId = created.body.id;
 

@@ -12,6 +12,7 @@ import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import {
   demoAccount,
   demoSessions,
+  ownTitle,
   launchBrowser,
   linkIn,
   openDerivation,
@@ -58,7 +59,7 @@ async function signedInPage(cookie: string): Promise<Page> {
 }
 
 async function newDerivation(title: string): Promise<string> {
-  const created = await demo.as.lead.post<{ id: string }>(`/api/groups/${demo.groupId}/derivations`, { title });
+  const created = await demo.as.lead.post<{ id: string }>(`/api/groups/${demo.groupId}/derivations`, { title: ownTitle(title) });
   expect(created.status).toBe(201);
   return created.body.id;
 }
@@ -220,6 +221,9 @@ describe('math', () => {
 
     await author.keyboard.press('Enter');
     await author.keyboard.type('$$ ');
+    // The block becomes display math before its source is typed (on a busy machine the editor may
+    // read keys typed before it has turned the line into a formula as one change of plain text).
+    await author.locator('.math-display.math-editing').waitFor();
     await author.keyboard.type('\\beta(g) = -\\epsilon g + \\frac{3}{2} g^2');
     await author.keyboard.press('Escape');
     const display = author.locator('.math-display').first();

@@ -7,7 +7,7 @@ import { randomUUID } from 'node:crypto';
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, test } from 'vitest';
 import { claimBlockNode, flowBlockNode } from '../../flow/document';
-import { demoAccount, demoSessions, launchBrowser, linkIn, readMailbox, signedInContext, startServer, waitForMail, type DemoSessions, type StartedServer } from '../helpers';
+import { demoAccount, demoSessions, launchBrowser, linkIn, ownTitle, readMailbox, signedInContext, startServer, waitForMail, type DemoSessions, type StartedServer } from '../helpers';
 import { connectClient, type CollabClient } from '../integration/collabClients';
 import { appendSteps, paragraph, setField, withStepId } from '../integration/reviewDocuments';
 
@@ -37,7 +37,8 @@ async function signedInPage(cookie: string): Promise<Page> {
 }
 
 test('a reviewer opens a claim, sees the evidence, runs it again, remarks on the step and signs it off; an edit of its flow clears the sign-off; the author follows the mail to the remark', async () => {
-  const created = await demo.as.author.post<{ id: string }>(`/api/groups/${demo.groupId}/derivations`, { title: 'Review: one-loop flow below d = 4' });
+  const title = ownTitle('Review: one-loop flow below d = 4');
+  const created = await demo.as.author.post<{ id: string }>(`/api/groups/${demo.groupId}/derivations`, { title });
   const id = created.body.id;
   const author = connectClient(server.url, id, { cookie: demo.cookies.author });
   clients.push(author);
@@ -54,7 +55,7 @@ test('a reviewer opens a claim, sees the evidence, runs it again, remarks on the
 
   const reviewer = await signedInPage(demo.cookies.reviewer);
   await reviewer.goto(`${server.url}/derivations/${id}`);
-  const text = reviewer.getByRole('textbox', { name: 'Review: one-loop flow below d = 4' });
+  const text = reviewer.getByRole('textbox', { name: title });
   await text.getByText('Below four dimensions').waitFor();
   expect(await text.getAttribute('aria-readonly')).toBe('true');
 
@@ -107,7 +108,7 @@ test('a reviewer opens a claim, sees the evidence, runs it again, remarks on the
   expect(await card.getByRole('button', { name: 'Sign off this step' }).isVisible()).toBe(true);
 
   // The author's mail links to the remark, which opens at its step.
-  const mail = await waitForMail(server.url, { to: demoAccount('author').email, subject: /remark on your step in "Review: one-loop flow below d = 4"/, notIn: beforeMail });
+  const mail = await waitForMail(server.url, { to: demoAccount('author').email, subject: new RegExp(`remark on your step in "${title.replace(/[.*+?^${}()|[\]\\]/g, '\\$&')}"`), notIn: beforeMail });
   const authorPage = await signedInPage(demo.cookies.author);
   await authorPage.goto(linkIn(mail, `/derivations/${id}`));
   const authorCard = authorPage.getByRole('region', { name: 'Review of step 3' });

@@ -11,7 +11,7 @@
 import { readFile } from 'node:fs/promises';
 import type { Browser, BrowserContext, Locator, Page } from 'playwright-core';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
-import { demoSessions, launchBrowser, openDerivation, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
+import { demoSessions, launchBrowser, openDerivation, ownTitle, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
 
 let server: StartedServer;
 let browser: Browser;
@@ -57,7 +57,7 @@ async function signedInPage(cookie: string): Promise<Page> {
 }
 
 async function newDerivation(title: string): Promise<string> {
-  const created = await demo.as.author.post<{ id: string }>(`/api/groups/${demo.groupId}/derivations`, { title });
+  const created = await demo.as.author.post<{ id: string }>(`/api/groups/${demo.groupId}/derivations`, { title: ownTitle(title) });
   expect(created.status).toBe(201);
   return created.body.id;
 }

@@ -1,3 +1,4 @@
+import { randomBytes } from 'node:crypto';
 // The demo accounts (invented people) and a way to sign each of them in on a demo server.
 import { demoAccounts, demoDerivationTitle, demoGroup } from '../../db/demo';
 import type { MemberRole } from '../../db/schema';
@@ -32,4 +33,10 @@ export async function demoSessions(url: string): Promise<DemoSessions> {
   const derivation = list.body.derivations.find((d) => d.title === demoDerivationTitle);
   if (!derivation) throw new Error('The demo derivation is missing.');
   return { cookies, as, groupId: group.id, derivationId: derivation.id };
+}
+
+/** A derivation title of its own: titles are unique in a group, and a browser test run again after
+ * a failure (their one retry) makes its derivation again. */
+export function ownTitle(title: string): string {
+  return `${title} ${randomBytes(3).toString('hex')}`;
 }
