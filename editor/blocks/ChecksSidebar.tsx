@@ -4,7 +4,7 @@
 // derivation's checks as the solver's claim file, or import one as new flow and claim blocks.
 import type { Editor } from '@tiptap/core';
 import type { Node as ProseMirrorNode } from '@tiptap/pm/model';
-import { useCallback, useEffect, useId, useMemo, useRef, useState, useSyncExternalStore, type ChangeEvent, type ReactNode } from 'react';
+import { startTransition, useEffect, useId, useMemo, useRef, useState, type ChangeEvent, type ReactNode } from 'react';
 import { CheckSummary, type SummaryEntry } from '@/components/checks/CheckSummary';
 import { EvidencePanel, type EvidenceRun } from '@/components/checks/EvidencePanel';
 import { ClaimDatasetSection } from '@/components/datasets/attach';
@@ -13,7 +13,7 @@ import { KIND_LABELS, claimFields, isClaimKind } from '@/flow/document/layout';
 import type { FieldError } from '@/flow/types';
 import { tightItem } from '../worker/reading';
 import { useDerivationId } from '../derivationContext';
-import { liveChecksOf, type ClaimView, type ExportChoice, type LiveChecks } from './live';
+import { liveChecksOf, type ClaimView, type ExportChoice, type LiveChecks, type LiveSnapshot } from './live';
 import { shownVerdict } from './verdictOf';
 
 /** Scrolls the text to a step and marks it for a moment; puts the caret in it when the text is editable. */
@@ -220,10 +220,23 @@ function ImportClaimFile({ editor, live }: { editor: Editor; live: LiveChecks })
   );
 }
 
+/**
+ * The live state for the panels, redrawn in a transition: they follow the claims a moment after the
+ * blocks, in tasks of their own, so a keystroke's frame never waits for React (whose every commit,
+ * while the caret is in the text, also walks the text to keep the selection).
+ */
+function useLiveSnapshot(live: LiveChecks): LiveSnapshot {
+  const [snapshot, setSnapshot] = useState(() => live.snapshot());
+  useEffect(() => {
+    setSnapshot(live.snapshot());
+    return live.subscribe(() => startTransition(() => setSnapshot(live.snapshot())));
+  }, [live]);
+  return snapshot;
+}
+
 export function ChecksSidebar({ editor, title, canEdit }: { editor: Editor; title: string; canEdit: boolean }) {
   const live = liveChecksOf(editor);
-  const subscribe = useCallback((listener: () => void) => live.subscribe(listener), [live]);
-  const snapshot = useSyncExternalStore(subscribe, () => live.snapshot(), () => live.snapshot());
+  const snapshot = useLiveSnapshot(live);
   const entries = useMemo(() => summaryEntries(snapshot.claims), [snapshot.claims]);
   const open = snapshot.evidenceFor ? snapshot.claims.find((c) => c.info.stepId === snapshot.evidenceFor) : undefined;
   const derivationId = useDerivationId();
