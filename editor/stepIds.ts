@@ -4,18 +4,14 @@
 // Changes arriving from other authors are left alone: their editor does the same on their side.
 import { Extension } from '@tiptap/core';
 import type { Node as ProseMirrorNode } from '@tiptap/pm/model';
-import { Plugin, PluginKey, type Transaction } from '@tiptap/pm/state';
-import { ySyncPluginKey } from '@tiptap/y-tiptap';
+import { Plugin, PluginKey } from '@tiptap/pm/state';
+import { isChangeOrigin } from '@tiptap/extension-collaboration';
 import { uuidv4 } from 'lib0/random';
 
 export const stepIdAttribute = 'stepId';
 
 export function newStepId(): string {
   return uuidv4();
-}
-
-function isRemote(tr: Transaction): boolean {
-  return Boolean(tr.getMeta(ySyncPluginKey));
 }
 
 /** The positions and new ids of top-level blocks that need one; empty when all is well. */
@@ -66,7 +62,7 @@ export const StepIds = Extension.create({
       new Plugin({
         key: new PluginKey('stepIds'),
         appendTransaction: (transactions, oldState, newState) => {
-          if (!transactions.some((tr) => tr.docChanged && !isRemote(tr))) return null;
+          if (!transactions.some((tr) => tr.docChanged && !isChangeOrigin(tr))) return null;
           const fixes = missingOrDuplicateStepIds(newState.doc, oldState.doc);
           if (fixes.length === 0) return null;
           const tr = newState.tr;

@@ -6,7 +6,7 @@
 import { Extension, Node, type Editor } from '@tiptap/core';
 import type { Node as ProseMirrorNode, Schema } from '@tiptap/pm/model';
 import { Plugin, PluginKey, TextSelection, type EditorState, type Transaction } from '@tiptap/pm/state';
-import { ySyncPluginKey } from '@tiptap/y-tiptap';
+import { isChangeOrigin } from '@tiptap/extension-collaboration';
 import {
   BLOCK_FIELD,
   BLOCK_ROW,
@@ -40,10 +40,6 @@ declare module '@tiptap/core' {
       removeCheckedBlock: (blockPos: number) => ReturnType;
     };
   }
-}
-
-function isRemote(tr: Transaction): boolean {
-  return Boolean(tr.getMeta(ySyncPluginKey));
 }
 
 export const BlockField = Node.create({
@@ -425,7 +421,7 @@ export const CheckedBlocks = Extension.create({
       new Plugin({
         key: new PluginKey('checkedBlocksRepair'),
         appendTransaction: (transactions, _oldState, newState) => {
-          if (!transactions.some((tr) => tr.docChanged && !isRemote(tr))) return null;
+          if (!transactions.some((tr) => tr.docChanged && !isChangeOrigin(tr))) return null;
           return repair(newState);
         },
       }),

@@ -3,7 +3,7 @@
 // unloading idle rooms, periodic access checks and the server-side access of access.ts.
 import { STATUS_CODES, type IncomingMessage } from 'node:http';
 import type { Duplex } from 'node:stream';
-import { yXmlFragmentToProsemirrorJSON } from '@tiptap/y-tiptap';
+import { yXmlFragmentToProsemirrorJSON } from 'y-prosemirror';
 import { WebSocketServer, type RawData, type WebSocket } from 'ws';
 import * as Y from 'yjs';
 import { isOwnOrigin } from '../origin';

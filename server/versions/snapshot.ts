@@ -2,7 +2,7 @@
 // ProseMirror JSON (the body the editor renders), with a hash of that content. The Y.Doc made
 // here never leaves this module: only bytes and plain data cross it.
 import { createHash } from 'node:crypto';
-import { yXmlFragmentToProsemirrorJSON } from '@tiptap/y-tiptap';
+import { yXmlFragmentToProsemirrorJSON } from 'y-prosemirror';
 import * as Y from 'yjs';
 import type { DocNode } from '../../flow/document';
 import { stableJson } from '../../flow/stableJson';

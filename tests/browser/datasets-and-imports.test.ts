@@ -7,7 +7,7 @@ import { mkdirSync } from 'node:fs';
 import path from 'node:path';
 import type { Browser, Page } from 'playwright-core';
 import { afterAll, beforeAll, expect, test } from 'vitest';
-import { yXmlFragmentToProsemirrorJSON } from '@tiptap/y-tiptap';
+import { yXmlFragmentToProsemirrorJSON } from 'y-prosemirror';
 import { demoDatasetName } from '../../db/demoDataset';
 import { api, demoSessions, launchBrowser, repoRoot, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
 import { connectClient } from '../integration/collabClients';

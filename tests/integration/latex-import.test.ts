@@ -2,7 +2,7 @@
 // copy (read through the collaboration socket, as an editor would) holds the headings, paragraphs
 // and equations as steps and ends with what was not imported; the roles, the size limit, binary
 // files and a taken title are refused, and nothing is created then.
-import { yXmlFragmentToProsemirrorJSON } from '@tiptap/y-tiptap';
+import { yXmlFragmentToProsemirrorJSON } from 'y-prosemirror';
 import { afterAll, beforeAll, describe, expect, test } from 'vitest';
 import { demoSessions, startServer, type DemoSessions, type StartedServer } from '../helpers';
 import { connectClient } from './collabClients';

@@ -6,7 +6,7 @@
 import { getSchema } from '@tiptap/core';
 import { Node } from '@tiptap/pm/model';
 import StarterKit from '@tiptap/starter-kit';
-import { yXmlFragmentToProsemirrorJSON } from '@tiptap/y-tiptap';
+import { yXmlFragmentToProsemirrorJSON } from 'y-prosemirror';
 import katex from 'katex';
 import { describe, expect, test } from 'vitest';
 import * as Y from 'yjs';
