@@ -11,17 +11,18 @@ type IntentLinkProps = Omit<ComponentProps<typeof Link>, 'href' | 'prefetch'> & 
 
 export function IntentLink({ href, onMouseEnter, onFocus, ...props }: IntentLinkProps) {
   const router = useRouter();
+  const prefetch = () => router.prefetch(href);
   return (
     <Link
       {...props}
       href={href}
       prefetch={false}
       onMouseEnter={(event) => {
-        router.prefetch(href);
+        prefetch();
         onMouseEnter?.(event);
       }}
       onFocus={(event) => {
-        router.prefetch(href);
+        prefetch();
         onFocus?.(event);
       }}
     />

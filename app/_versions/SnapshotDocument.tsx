@@ -10,17 +10,13 @@ import * as Y from 'yjs';
 import { Notice } from '@/components/ui';
 import { DerivationEditor } from '@/editor/DerivationEditor';
 import type { EditorBinding } from '@/editor/extensions';
-import { fetchTextFonts } from '@/editor/fonts';
-import { fetchKatex } from '@/editor/katex';
+import { fetchTextAhead } from '@/editor/textAhead';
 import type { LiveChecks } from '@/editor/blocks';
 import type { VersionClaim } from '@/server/versions/types';
 import { StoredEvidenceDrawer, supplyStoredVerdicts } from './StoredEvidence';
 
-// KaTeX and the text's fonts are fetched as this code runs in the browser, before the snapshot arrives.
-if (typeof window !== 'undefined') {
-  void fetchKatex();
-  fetchTextFonts();
-}
+// KaTeX and the text's fonts are fetched as this code runs, before the snapshot arrives.
+fetchTextAhead();
 
 export type StepMark = 'changed' | 'added' | 'removed' | 'moved';
 

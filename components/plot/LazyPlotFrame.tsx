@@ -10,11 +10,6 @@ const DEFAULT_HEIGHT = 340;
 
 const drawingCode = clientModule(() => import('./PlotFrame'));
 
-/** Starts fetching the drawing code (once); a page may call it when it expects a plot soon. */
-export function preloadPlotFrame(): void {
-  void drawingCode.fetch();
-}
-
 function PlotFramePlaceholder({ title, height, failed }: Pick<PlotFrameProps, 'title' | 'height'> & { failed: boolean }) {
   return (
     <figure className="my-3" aria-busy={!failed} data-plot-frame-loading="">

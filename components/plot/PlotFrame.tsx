@@ -45,7 +45,6 @@ export interface PlotFrameProps {
   actions?: ReactNode;
 }
 
-export { PLOT_ACCENT, PLOT_INK };
 const SOFT = '#4a4640';
 const FAINT = '#8a857c';
 const GRID = '#e4e0d6';

@@ -1,4 +1,4 @@
-export { PlotFrame, preloadPlotFrame } from './LazyPlotFrame';
+export { PlotFrame } from './LazyPlotFrame';
 export type { PlotFrameProps } from './PlotFrame';
 export { PLOT_ACCENT, PLOT_INK } from './colours';
 export type { AxisScale, MarkerShape, PlotAxis, PlotMarker, PlotPoint, PlotSeries, ReadoutEntry, SeriesLook } from './types';

@@ -9,11 +9,8 @@
 // Goals: first render under 1.5 s, verdicts within 300 ms, no main-thread task over 50 ms.
 // Reports medians (and the spread); asserts nothing about time.
 import type { Browser, BrowserContext, Page } from 'playwright-core';
-import { readDocument, type DocNode } from '../../flow/document';
-import { demoSessions, launchBrowser, startServer, type DemoSessions, type StartedServer } from '../helpers';
-import { connectClient } from '../integration/collabClients';
-import { appendBlocks } from '../integration/checksDocument';
-import { growDocument, TARGET_CLAIMS, TARGET_STEPS, waitForDocumentShown, waitForEveryVerdict } from './stepsDocument';
+import { demoSessions, launchBrowser, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
+import { BENCH_VIEWPORT, growDemoDerivation, TARGET_CLAIMS, TARGET_STEPS, waitForDocumentShown, waitForEveryVerdict } from './stepsDocument';
 
 const LOADS = Number(process.env.BENCH_LOADS ?? 7);
 const KEYSTROKES = Number(process.env.BENCH_KEYSTROKES ?? 15);
@@ -30,35 +27,9 @@ function spread(values: number[]): string {
   return `median ${median(values).toFixed(0)} ms (min ${sorted[0]!.toFixed(0)}, max ${sorted.at(-1)!.toFixed(0)}, n = ${values.length})`;
 }
 
-/** Grows the demo derivation's working copy to the benchmark's size; returns the edited flow and its claims. */
-async function grow(server: StartedServer, demo: DemoSessions): Promise<{ editedFlow: string; dependentClaims: string[] }> {
-  const client = connectClient(server.url, demo.derivationId, { cookie: demo.cookies.author });
-  await client.synced();
-  const { yXmlFragmentToProsemirrorJSON } = await import('@tiptap/y-tiptap');
-  const body = yXmlFragmentToProsemirrorJSON(client.doc.getXmlFragment('body')) as DocNode;
-  const steps = body.content?.length ?? 0;
-  const claims = readDocument(body).claims.length;
-  const grown = growDocument({ steps, claims });
-  appendBlocks(client.doc, grown.blocks);
-  // Wait until the server has stored the edit and checked it in the background, so its thread
-  // does not share the cores with the browser's first measurements.
-  const deadline = Date.now() + 120_000;
-  for (;;) {
-    const answer = await demo.as.author.get<{ pending: boolean; claims: unknown[] }>(`/api/derivations/${demo.derivationId}/checks`);
-    if (!answer.body.pending && answer.body.claims.length >= TARGET_CLAIMS) break;
-    if (Date.now() > deadline) throw new Error('the server did not check the grown derivation within two minutes');
-    await new Promise((resolve) => setTimeout(resolve, 250));
-  }
-  client.destroy();
-  const check = readDocument(yXmlFragmentToProsemirrorJSON(client.doc.getXmlFragment('body')) as DocNode);
-  console.log(`Derivation grown from ${steps} steps (${claims} claims) to ${steps + grown.blocks.length} steps (${check.claims.length} claims).`);
-  return grown;
-}
-
-async function signedInContext(browser: Browser, server: StartedServer, cookie: string): Promise<BrowserContext> {
-  const context = await browser.newContext({ viewport: { width: 1280, height: 900 } });
-  const [name] = cookie.split('=');
-  await context.addCookies([{ name: name!, value: cookie.slice(name!.length + 1), url: server.url }]);
+/** A signed-in browser profile of its own that keeps the page's long tasks from its very start. */
+async function benchContext(browser: Browser, server: StartedServer, cookie: string): Promise<BrowserContext> {
+  const context = await signedInContext(browser, server.url, cookie, { viewport: BENCH_VIEWPORT });
   // Long tasks from the very start of the page, kept on the window.
   await context.addInitScript(() => {
     const w = window as unknown as { __longTasks: { start: number; duration: number }[] };
@@ -84,7 +55,7 @@ interface LoadTimes {
 }
 
 async function loadOnce(browser: Browser, server: StartedServer, demo: DemoSessions): Promise<LoadTimes> {
-  const context = await signedInContext(browser, server, demo.cookies.author);
+  const context = await benchContext(browser, server, demo.cookies.author);
   const page = await context.newPage();
   await page.goto(`${server.url}/derivations/${demo.derivationId}`);
   const documentShown = await waitForDocumentShown(page);
@@ -112,7 +83,7 @@ async function parameterField(page: Page, flowStepId: string, name: string) {
 }
 
 async function keystrokes(browser: Browser, server: StartedServer, demo: DemoSessions, grown: { editedFlow: string; dependentClaims: string[] }) {
-  const context = await signedInContext(browser, server, demo.cookies.author);
+  const context = await benchContext(browser, server, demo.cookies.author);
   const page = await context.newPage();
   await page.goto(`${server.url}/derivations/${demo.derivationId}`);
   await page.waitForFunction(
@@ -182,7 +153,7 @@ async function main(): Promise<void> {
   let browser: Browser | null = null;
   try {
     const demo = await demoSessions(server.url);
-    const grown = await grow(server, demo);
+    const grown = await growDemoDerivation(server, demo);
     browser = await launchBrowser();
     const loads: LoadTimes[] = [];
     for (let i = 0; i < LOADS; i++) loads.push(await loadOnce(browser, server, demo));

@@ -8,11 +8,8 @@
 import { writeFileSync } from 'node:fs';
 import path from 'node:path';
 import type { Browser, CDPSession, Page } from 'playwright-core';
-import { readDocument, type DocNode } from '../../flow/document';
-import { demoSessions, launchBrowser, startServer } from '../helpers';
-import { connectClient } from '../integration/collabClients';
-import { appendBlocks } from '../integration/checksDocument';
-import { growDocument, TARGET_CLAIMS, TARGET_STEPS, waitForDocumentShown, waitForEveryVerdict } from './stepsDocument';
+import { demoSessions, launchBrowser, signedInContext, startServer } from '../helpers';
+import { BENCH_VIEWPORT, growDemoDerivation, waitForDocumentShown, waitForEveryVerdict } from './stepsDocument';
 
 const TASK_MS = Number(process.env.PROFILE_TASK_MS ?? 40);
 const OUT = process.env.PROFILE_DIR ?? '/tmp';
@@ -168,25 +165,8 @@ async function main(): Promise<void> {
   const browser = await launchBrowser();
   try {
     const demo = await demoSessions(server.url);
-    const client = connectClient(server.url, demo.derivationId, { cookie: demo.cookies.author });
-    await client.synced();
-    const { yXmlFragmentToProsemirrorJSON } = await import('@tiptap/y-tiptap');
-    const body = yXmlFragmentToProsemirrorJSON(client.doc.getXmlFragment('body')) as DocNode;
-    const grown = growDocument({ steps: body.content?.length ?? 0, claims: readDocument(body).claims.length });
-    appendBlocks(client.doc, grown.blocks);
-    for (;;) {
-      const answer = await demo.as.author.get<{ pending: boolean; claims: unknown[] }>(`/api/derivations/${demo.derivationId}/checks`);
-      if (!answer.body.pending && answer.body.claims.length >= TARGET_CLAIMS) break;
-      await new Promise((resolve) => setTimeout(resolve, 250));
-    }
-    client.destroy();
-
-    const [name] = demo.cookies.author.split('=');
-    const signedIn = async () => {
-      const fresh = await browser.newContext({ viewport: { width: 1280, height: 900 } });
-      await fresh.addCookies([{ name: name!, value: demo.cookies.author.slice(name!.length + 1), url: server.url }]);
-      return fresh;
-    };
+    const grown = await growDemoDerivation(server, demo);
+    const signedIn = () => signedInContext(browser, server.url, demo.cookies.author, { viewport: BENCH_VIEWPORT });
     // One load first, as the benchmark's later loads meet the server: its pages' code loaded.
     const warm = await signedIn();
     const warmPage = await warm.newPage();

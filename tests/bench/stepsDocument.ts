@@ -1,11 +1,20 @@
 // Demo data for the checked-steps benchmark: steps added to a derivation until it holds 200 steps
 // with 40 claims — prose with inline and display math, four flow blocks, claims of every kind bound
 // to them (or to no flow), and two trajectory plots. The first flow block added (the O(n) flow at
-// n = 0, parameters n and eps) is the one the benchmark types into; it has ten claims.
+// n = 0, parameters n and eps) is the one the benchmark types into; it has ten claims. Shared by
+// the benchmark and its profiling tool: growing the demo derivation on a server, and the waits for
+// the document shown and for every verdict.
 import { randomUUID } from 'node:crypto';
-import { claimBlockNode, flowBlockNode, type DocNode } from '../../flow/document';
-import { plotBlockNode } from '../../editor/blocks/plotNodes';
 import type { Page } from 'playwright-core';
+import { yXmlFragmentToProsemirrorJSON } from 'y-prosemirror';
+import { claimBlockNode, flowBlockNode, readDocument, type DocNode } from '../../flow/document';
+import { plotBlockNode } from '../../editor/blocks/plotNodes';
+import type { DemoSessions, StartedServer } from '../helpers';
+import { appendBlocks } from '../integration/checksDocument';
+import { connectClient } from '../integration/collabClients';
+
+/** The browser window of the benchmark and its profiling tool. */
+export const BENCH_VIEWPORT = { width: 1280, height: 900 };
 
 export const TARGET_STEPS = 200;
 export const TARGET_CLAIMS = 40;
@@ -192,4 +201,28 @@ export async function waitForEveryVerdict(page: Page): Promise<number> {
     { timeout: 120_000, polling: 'raf' },
   );
   return (await settledAt.jsonValue()) as number;
+}
+
+/** Grows the demo derivation's working copy to the benchmark's size; returns the edited flow and its claims. */
+export async function growDemoDerivation(server: StartedServer, demo: DemoSessions): Promise<{ editedFlow: string; dependentClaims: string[] }> {
+  const client = connectClient(server.url, demo.derivationId, { cookie: demo.cookies.author });
+  await client.synced();
+  const body = yXmlFragmentToProsemirrorJSON(client.doc.getXmlFragment('body')) as DocNode;
+  const steps = body.content?.length ?? 0;
+  const claims = readDocument(body).claims.length;
+  const grown = growDocument({ steps, claims });
+  appendBlocks(client.doc, grown.blocks);
+  // Wait until the server has stored the edit and checked it in the background, so its thread
+  // does not share the cores with the browser's first measurements.
+  const deadline = Date.now() + 120_000;
+  for (;;) {
+    const answer = await demo.as.author.get<{ pending: boolean; claims: unknown[] }>(`/api/derivations/${demo.derivationId}/checks`);
+    if (!answer.body.pending && answer.body.claims.length >= TARGET_CLAIMS) break;
+    if (Date.now() > deadline) throw new Error('the server did not check the grown derivation within two minutes');
+    await new Promise((resolve) => setTimeout(resolve, 250));
+  }
+  client.destroy();
+  const check = readDocument(yXmlFragmentToProsemirrorJSON(client.doc.getXmlFragment('body')) as DocNode);
+  console.log(`Derivation grown from ${steps} steps (${claims} claims) to ${steps + grown.blocks.length} steps (${check.claims.length} claims).`);
+  return grown;
 }

@@ -1,5 +1,5 @@
-import { randomBytes } from 'node:crypto';
 // The demo accounts (invented people) and a way to sign each of them in on a demo server.
+import { randomBytes } from 'node:crypto';
 import { demoAccounts, demoDerivationTitle, demoGroup } from '../../db/demo';
 import type { MemberRole } from '../../db/schema';
 import { api, type Api } from './api';

@@ -8,8 +8,7 @@ import { markOnce } from '@/components/performanceMark';
 import { ClaimCount } from '@/components/StatusWord';
 import { Loading, Notice, PageTitle, When } from '@/components/ui';
 import { VersionsPanel } from '@/app/_versions/VersionsPanel';
-import { fetchTextFonts } from '@/editor/fonts';
-import { fetchKatex } from '@/editor/katex';
+import { fetchTextAhead } from '@/editor/textAhead';
 import { fetchJson } from '../../_lib/fetchJson';
 import type { DerivationView, Wire } from '../../_lib/wire';
 import { ReviewPane } from './ReviewPane';
@@ -18,11 +17,8 @@ import { requestServerCopy } from './serverCopy';
 // The editor and its connection live in the browser only (Yjs, IndexedDB, websocket). Its code,
 // the text's fonts and KaTeX are fetched as soon as this page's code runs, alongside the facts.
 const whiteboardCode = clientModule(() => import('./Whiteboard'));
-if (typeof window !== 'undefined') {
-  void whiteboardCode.fetch();
-  void fetchKatex();
-  fetchTextFonts();
-}
+if (typeof window !== 'undefined') void whiteboardCode.fetch();
+fetchTextAhead();
 
 export function DerivationPage({ derivationId, user }: { derivationId: string; user: { id: string; name: string } }) {
   const queryClient = useQueryClient();
