@@ -12,6 +12,8 @@ import { verdictBadgeElement } from '@/components/checks/verdict';
 import { CLAIM_KINDS, type ClaimKind } from '@/flow/types';
 import { FLOW_FIELDS, FLOW_ROWS, KIND_LABELS, claimFields, isClaimKind, type FieldSpec, type RowKind } from '@/flow/document/layout';
 import { liveChecksOf, type LiveChecks } from './live';
+import { chromeButton, element } from './chromeDom';
+import { FlowChooser, type FlowChoice } from './flowChooser';
 import { cancelTypeset, typesetSoon } from './typesetQueue';
 import { shownVerdict } from './verdictOf';
 
@@ -19,26 +21,6 @@ type GetPos = () => number | undefined;
 
 /** How long a check runs before it offers Cancel (ms). */
 const CANCEL_AFTER_MS = 400;
-
-function element<K extends keyof HTMLElementTagNameMap>(tag: K, className?: string, text?: string): HTMLElementTagNameMap[K] {
-  const node = document.createElement(tag);
-  if (className) node.className = className;
-  if (text !== undefined) node.textContent = text;
-  return node;
-}
-
-/** A button in a block's chrome: it never takes the caret out of the text, and works from the keyboard. */
-function chromeButton(label: string, onPress: () => void, options: { className?: string; title?: string; editOnly?: boolean } = {}): HTMLButtonElement {
-  const button = element('button', `block-button${options.editOnly ? ' block-edit-only' : ''}${options.className ? ` ${options.className}` : ''}`, label);
-  button.type = 'button';
-  if (options.title) button.title = options.title;
-  button.addEventListener('mousedown', (event) => event.preventDefault());
-  button.addEventListener('click', (event) => {
-    event.preventDefault();
-    onPress();
-  });
-  return button;
-}
 
 /** Mutations in the chrome are ours; only the text (contentDOM) is ProseMirror's. */
 function chromeMutation(contentDOM: HTMLElement, mutation: ViewMutationRecord): boolean {
@@ -389,7 +371,7 @@ class ClaimBlockView implements NodeView {
   readonly contentDOM: HTMLElement;
   private readonly title: HTMLElement;
   private readonly badgeSlot: HTMLElement;
-  private readonly flowSelect: HTMLSelectElement;
+  private readonly flowChooser: FlowChooser;
   private readonly verdictLine: HTMLElement;
   private readonly noteLine: HTMLElement;
   private readonly cancelButton: HTMLButtonElement;
@@ -413,18 +395,14 @@ class ClaimBlockView implements NodeView {
     this.title = element('h3', 'block-title', 'Claim');
     this.badgeSlot = element('span', 'block-verdict');
     this.badgeSlot.setAttribute('role', 'status');
-    const binding = element('label', 'block-binding');
-    binding.append(element('span', '', 'Flow'));
-    this.flowSelect = element('select', 'block-select');
-    this.flowSelect.addEventListener('change', () => this.bind(this.flowSelect.value));
-    binding.append(this.flowSelect);
+    this.flowChooser = new FlowChooser((value) => this.bind(value));
     const tools = element('span', 'block-tools');
     this.evidenceButton = chromeButton('Evidence', () => this.live.openEvidence(this.stepId), { title: 'What the solver measured, how, and how sure it is' });
     this.cancelButton = chromeButton('Cancel', () => this.live.cancel(this.stepId), { title: 'Stop this check' });
     this.againButton = chromeButton('Check again', () => this.live.checkAgain(this.stepId));
     const remove = chromeButton('Remove block', () => this.removeBlock(), { editOnly: true, className: 'block-remove', title: 'Remove this claim block (Ctrl+Z brings it back)' });
     tools.append(this.evidenceButton, this.cancelButton, this.againButton, remove);
-    header.append(this.title, this.badgeSlot, binding, tools);
+    header.append(this.title, this.badgeSlot, this.flowChooser.dom, tools);
     this.verdictLine = element('p', 'block-verdict-message block-chrome');
     this.verdictLine.contentEditable = 'false';
     this.noteLine = element('p', 'block-verdict-note block-chrome');
@@ -489,19 +467,13 @@ class ClaimBlockView implements NodeView {
     const key = `${binding}|${boundNumber}|${flows.map((f) => `${f.stepId}:${f.number}:${f.name}`).join(',')}|${this.editor.isEditable}`;
     if (key === this.shownFlows) return;
     this.shownFlows = key;
-    const options: HTMLOptionElement[] = [];
-    const option = (value: string, label: string) => {
-      const o = element('option', '', label);
-      o.value = value;
-      options.push(o);
-    };
-    option('', binding === '' && boundNumber !== null ? `the flow block above (${boundNumber})` : 'the flow block above');
-    option('none', 'no flow');
-    for (const flow of flows) option(flow.stepId, `flow block ${flow.number}${flow.name ? `: ${flow.name}` : ''}`);
-    if (binding !== '' && binding !== 'none' && !flows.some((f) => f.stepId === binding)) option(binding, 'a flow block no longer here');
-    this.flowSelect.replaceChildren(...options);
-    this.flowSelect.value = binding;
-    this.flowSelect.disabled = !this.editor.isEditable;
+    const choices: FlowChoice[] = [
+      { value: '', label: binding === '' && boundNumber !== null ? `the flow block above (${boundNumber})` : 'the flow block above' },
+      { value: 'none', label: 'no flow' },
+      ...flows.map((flow) => ({ value: flow.stepId, label: `flow block ${flow.number}${flow.name ? `: ${flow.name}` : ''}` })),
+    ];
+    if (binding !== '' && binding !== 'none' && !flows.some((f) => f.stepId === binding)) choices.push({ value: binding, label: 'a flow block no longer here' });
+    this.flowChooser.show(choices, binding, this.editor.isEditable);
   }
 
   private bind(value: string): void {

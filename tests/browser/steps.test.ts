@@ -108,7 +108,7 @@ async function waitForVerdict(block: Locator, verdict: string): Promise<void> {
 }
 
 describe('inserting blocks', () => {
-  test('a flow block typed field by field shows typeset previews, says what is wrong, and a fixed-point claim below it holds', async () => {
+  test('a flow block typed field by field shows typeset previews, says what is wrong, and a fixed-point claim below it holds, and says invalid input while bound to no flow', async () => {
     const page = await signedInPage(demo.cookies.author);
     await openDerivation(page, server.url, await newDerivation('Blocks typed by hand'));
     await page.locator('.ProseMirror').click();
@@ -147,8 +147,17 @@ describe('inserting blocks', () => {
     expect(await claim.locator('.verdict-badge').innerText()).toBe('holds');
     // One loop at n = 0, eps = 0.1: g* = 3 eps / 8 = 0.0375.
     expect(await claim.locator('.block-verdict-message').textContent()).toContain('fixed point at g = 0.0375');
-    expect(await claim.locator('.block-select').inputValue()).toBe('');
-    expect(await claim.locator('.block-select option:checked').textContent()).toBe('the flow block above (1)');
+    const binding = claim.locator('.block-binding-choice');
+    expect(await binding.textContent()).toBe('the flow block above (1)');
+    // Choosing no flow leaves a fixed point with nothing to check against; choosing the flow again restores it.
+    await binding.click();
+    await claim.locator('select.block-select').selectOption('none');
+    expect(await binding.textContent()).toBe('no flow');
+    await waitForVerdict(claim, 'invalid');
+    await binding.click();
+    await claim.locator('select.block-select').selectOption('');
+    await waitForVerdict(claim, 'holds');
+    expect(await binding.textContent()).toBe('the flow block above (1)');
   });
 
   test('a claim block of every kind can be inserted, each with its own fields, and a block missing its required fields says invalid input', async () => {
