@@ -125,7 +125,7 @@ export function StepMargin({
   const [heights, setHeights] = useState<Record<string, number>>({});
   const [hovered, setHovered] = useState<string | null>(null);
   const itemRefs = useRef(new Map<string, HTMLElement>());
-  const frame = useRef<number | null>(null);
+  const pending = useRef<{ frame: number | null; timer: ReturnType<typeof setTimeout> | null }>({ frame: null, timer: null });
 
   // Only the steps with something in the margin are measured.
   const stepIds = useMemo(
@@ -134,7 +134,7 @@ export function StepMargin({
   );
 
   const measure = useCallback(() => {
-    frame.current = null;
+    pending.current.timer = null;
     const margin = marginRef.current;
     if (!main || !margin) return;
     const origin = margin.getBoundingClientRect().top;
@@ -156,12 +156,20 @@ export function StepMargin({
   // The frame runs the latest measure (the steps to measure may change while it waits).
   const latestMeasure = useRef(measure);
   latestMeasure.current = measure;
+  // Measured just after the next frame is drawn, when its layout is done and reading it costs
+  // nothing: a read inside the frame, before the text's own changes, lays a long text out twice
+  // (10-40 ms a frame while a derivation's first verdicts come in).
   const schedule = useCallback(() => {
-    if (frame.current === null) frame.current = requestAnimationFrame(() => latestMeasure.current());
+    const at = pending.current;
+    if (at.frame !== null || at.timer !== null) return;
+    at.frame = requestAnimationFrame(() => {
+      at.frame = null;
+      at.timer = setTimeout(() => latestMeasure.current(), 0);
+    });
   }, []);
 
-  // After every render, measured in the next frame (before it is painted): never a layout forced
-  // in the middle of React's commit or of a change to the text.
+  // After every render, measured after the next frame: never a layout forced in the middle of
+  // React's commit or of a change to the text.
   useLayoutEffect(() => {
     schedule();
   });
@@ -189,8 +197,11 @@ export function StepMargin({
       window.removeEventListener('resize', schedule);
       main.removeEventListener('click', onClick);
       main.removeEventListener('mouseover', onOver);
-      if (frame.current !== null) cancelAnimationFrame(frame.current);
-      frame.current = null;
+      const at = pending.current;
+      if (at.frame !== null) cancelAnimationFrame(at.frame);
+      if (at.timer !== null) clearTimeout(at.timer);
+      at.frame = null;
+      at.timer = null;
     };
   }, [main, schedule, steps, selectOnClick, onSelect]);
 

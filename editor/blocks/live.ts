@@ -11,6 +11,7 @@ import { mark } from '@/components/performanceMark';
 import { CheckClient, type CheckState } from '../worker/checkClient';
 import type { CheckItem, ClaimInfo, FieldAnswer, FieldRequest, FlowInfo, ImportAnswer, Reading, WorkerLike } from '../worker/protocol';
 import { readBlocks } from '../worker/reading';
+import { frameShareLeft, spendFrameShare } from './frameShare';
 
 export type { CheckState };
 
@@ -532,33 +533,45 @@ export class LiveChecks {
     return { info, flowNumber, state: status.state, result: status.result, previous, since: status.since, note: status.note, tight };
   }
 
-  private scheduleNotify(): void {
+  /** `continuing`: blocks left over from a redraw that ran out of its frame's time, drawn in the next one. */
+  private scheduleNotify(continuing = false): void {
     // Changes arriving within one frame (a reading, results known from the cache, several quick
     // checks) are shown together: one redraw of the page, not one per result.
     if (this.notifyScheduled) return;
     this.notifyScheduled = true;
     let done = false;
-    const run = () => {
+    const run = (frameTime?: number) => {
       if (done || this.destroyed) return;
       done = true;
       this.notifyScheduled = false;
-      const steps = [...this.changedSteps];
-      this.changedSteps.clear();
-      for (const stepId of steps) for (const listener of [...(this.stepListeners.get(stepId) ?? [])]) listener();
+      // A page's first verdicts change every block at once: drawn a frame's share at a time
+      // (frameShare.ts), so that no frame holds the page for long.
+      const start = now();
+      const budget = frameShareLeft(frameTime);
+      for (const stepId of this.changedSteps) {
+        this.changedSteps.delete(stepId);
+        for (const listener of [...(this.stepListeners.get(stepId) ?? [])]) listener();
+        if (this.changedSteps.size > 0 && now() - start > budget) {
+          spendFrameShare(frameTime, now() - start);
+          this.scheduleNotify(true);
+          return;
+        }
+      }
+      spendFrameShare(frameTime, now() - start);
       for (const listener of [...this.listeners]) listener();
     };
     // Results streaming in are shown at most every NOTIFY_GAP_MS, so a burst of checks redraws
     // the page a few times rather than once per claim.
     // The last result of a burst is shown at once.
-    const wait = this.current.busy ? Math.max(0, this.lastNotify + NOTIFY_GAP_MS - now()) : 0;
-    const frame = () => {
+    const wait = this.current.busy && !continuing ? Math.max(0, this.lastNotify + NOTIFY_GAP_MS - now()) : 0;
+    const frame = (frameTime?: number) => {
       this.lastNotify = now();
-      run();
+      run(frameTime);
     };
     setTimeout(() => {
       // A hidden page gets no animation frames: the second timer shows the changes there.
       if (typeof requestAnimationFrame === 'function') requestAnimationFrame(frame);
-      setTimeout(frame, 50);
+      setTimeout(() => frame(), 50);
     }, wait);
   }
 }

@@ -1,9 +1,10 @@
 // Typesetting a few formulas at a time, so that opening a long derivation (hundreds of fields and
 // formulas) or a reading that changes many previews never blocks the page for long: each frame
-// typesets for at most a few milliseconds, then yields. Nothing runs before KaTeX has arrived.
+// typesets for at most its share of the frame (frameShare.ts), then yields. Nothing runs before
+// KaTeX has arrived.
 import { katexNow, whenKatex } from '../katex';
+import { frameShareLeft, spendFrameShare } from './frameShare';
 
-const BUDGET_MS = 6;
 /** What to draw into each element; the latest request for an element wins. Kept in request order. */
 const waiting = new Map<HTMLElement, () => void>();
 let scheduled = false;
@@ -22,14 +23,16 @@ function typesetPreview(target: HTMLElement, tex: string): void {
   }
 }
 
-function run(): void {
+function run(frameTime: number): void {
   scheduled = false;
   const start = now();
+  const budget = frameShareLeft(frameTime);
   for (const [target, draw] of waiting) {
     waiting.delete(target);
     if (target.isConnected) draw();
-    if (now() - start > BUDGET_MS) break;
+    if (now() - start > budget) break;
   }
+  spendFrameShare(frameTime, now() - start);
   if (waiting.size > 0) schedule();
 }
 

@@ -33,9 +33,10 @@ interface Profile {
 }
 
 function frameName(node: ProfileNode): string {
-  const { functionName, url, lineNumber } = node.callFrame;
+  const { functionName, url, lineNumber, columnNumber } = node.callFrame;
   const file = url ? url.split('/').pop()!.split('?')[0] : '';
-  return `${functionName || '(anonymous)'}${file ? ` ${file}:${lineNumber + 1}` : ''}`;
+  // Built code is a few long lines: the column tells an anonymous function from its neighbours.
+  return `${functionName || '(anonymous)'}${file ? ` ${file}:${lineNumber + 1}:${columnNumber + 1}` : ''}`;
 }
 
 /** Tasks (runs of samples that are not idle) over TASK_MS, with their top functions by self and total time. */
