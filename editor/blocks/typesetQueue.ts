@@ -1,15 +1,50 @@
 // Typesetting a few formulas at a time, so that opening a long derivation (hundreds of fields and
-// formulas) or a reading that changes many previews never blocks the page for long: each frame
-// typesets for at most its share of the frame (frameShare.ts), then yields. Nothing runs before
-// KaTeX has arrived.
+// formulas) or a reading that changes many previews never blocks the page for long. A formula on
+// or near the screen is typeset in the coming frames, each taking at most its share of the frame
+// (frameShare.ts); one further away waits for the page to be idle, so that it never lengthens a
+// frame while the page has other work (its first verdicts coming in), and is moved up when it
+// nears the screen. Nothing runs before KaTeX has arrived.
 import { katexNow, whenKatex } from '../katex';
-import { frameShareLeft, spendFrameShare } from './frameShare';
+import { FRAME_SHARE_MS, frameShareLeft, spendFrameShare } from './frameShare';
 
 /** What to draw into each element; the latest request for an element wins. Kept in request order. */
-const waiting = new Map<HTMLElement, () => void>();
-let scheduled = false;
+const soon = new Map<HTMLElement, () => void>();
+const idle = new Map<HTMLElement, () => void>();
+/** Elements on or within a screen's height of the screen, as last reported. */
+const nearScreen = new WeakSet<HTMLElement>();
+const watched = new WeakSet<HTMLElement>();
+let frameScheduled = false;
+let idleScheduled = false;
 
 const now = () => performance.now();
+
+let watcher: IntersectionObserver | null | undefined;
+function nearnessWatcher(): IntersectionObserver | null {
+  if (watcher !== undefined) return watcher;
+  watcher =
+    typeof IntersectionObserver === 'function'
+      ? new IntersectionObserver(
+          (entries) => {
+            for (const entry of entries) {
+              const target = entry.target as HTMLElement;
+              if (!entry.isIntersecting) {
+                nearScreen.delete(target);
+                continue;
+              }
+              nearScreen.add(target);
+              const draw = idle.get(target);
+              if (draw) {
+                idle.delete(target);
+                soon.set(target, draw);
+                scheduleFrame();
+              }
+            }
+          },
+          { rootMargin: '100% 0px' },
+        )
+      : null;
+  return watcher;
+}
 
 /** A field's preview: TeX the solver made, shown as written if KaTeX cannot read it. */
 function typesetPreview(target: HTMLElement, tex: string): void {
@@ -23,29 +58,60 @@ function typesetPreview(target: HTMLElement, tex: string): void {
   }
 }
 
-function run(frameTime: number): void {
-  scheduled = false;
+function drawFrom(queue: Map<HTMLElement, () => void>, budget: number): number {
   const start = now();
-  const budget = frameShareLeft(frameTime);
-  for (const [target, draw] of waiting) {
-    waiting.delete(target);
+  for (const [target, draw] of queue) {
+    queue.delete(target);
     if (target.isConnected) draw();
     if (now() - start > budget) break;
   }
-  spendFrameShare(frameTime, now() - start);
-  if (waiting.size > 0) schedule();
+  return now() - start;
 }
 
-function schedule(): void {
-  if (scheduled) return;
-  scheduled = true;
-  whenKatex(() => requestAnimationFrame(run));
+function runFrame(frameTime: number): void {
+  frameScheduled = false;
+  spendFrameShare(frameTime, drawFrom(soon, frameShareLeft(frameTime)));
+  if (soon.size > 0) scheduleFrame();
 }
 
-/** Draws into `target` in a coming frame (with KaTeX there); a later request for it replaces this one. */
+function runIdle(deadline: { timeRemaining: () => number }): void {
+  idleScheduled = false;
+  drawFrom(idle, Math.min(FRAME_SHARE_MS, deadline.timeRemaining()));
+  if (idle.size > 0) scheduleIdle();
+}
+
+function scheduleFrame(): void {
+  if (frameScheduled) return;
+  frameScheduled = true;
+  whenKatex(() => requestAnimationFrame(runFrame));
+}
+
+function scheduleIdle(): void {
+  if (idleScheduled) return;
+  idleScheduled = true;
+  whenKatex(() => {
+    if (typeof requestIdleCallback === 'function') requestIdleCallback(runIdle, { timeout: 2000 });
+    else setTimeout(() => runIdle({ timeRemaining: () => FRAME_SHARE_MS }), 50);
+  });
+}
+
+/** Draws into `target` soon (with KaTeX there): in a coming frame near the screen, when the page is
+ * idle further away. A later request for it replaces this one. */
 export function drawSoon(target: HTMLElement, draw: () => void): void {
-  waiting.set(target, draw);
-  schedule();
+  const watching = nearnessWatcher();
+  if (watching && !watched.has(target)) {
+    watched.add(target);
+    watching.observe(target);
+  }
+  if (!watching || nearScreen.has(target)) {
+    idle.delete(target);
+    soon.set(target, draw);
+    scheduleFrame();
+  } else {
+    soon.delete(target);
+    idle.set(target, draw);
+    scheduleIdle();
+  }
 }
 
 /** Typesets a field's preview `tex` into `target` soon. */
@@ -54,5 +120,6 @@ export function typesetSoon(target: HTMLElement, tex: string): void {
 }
 
 export function cancelTypeset(target: HTMLElement): void {
-  waiting.delete(target);
+  soon.delete(target);
+  idle.delete(target);
 }

@@ -231,7 +231,7 @@ describe('math', () => {
     expect(await display.locator('annotation').textContent()).toBe('\\beta(g) = -\\epsilon g + \\frac{3}{2} g^2');
     await lead.locator('.math-display .katex-display').waitFor();
   });
-  test('a long text opens with every formula typeset, the last ones as the first (a screenful at once, the rest in the next frames)', async () => {
+  test('a long text opens with every formula typeset, the last ones as the first (a screenful at once, those near the screen in the next frames, the rest while the page is idle)', async () => {
     const derivationId = await newDerivation('Many formulas');
     const writer = connectClient(server.url, derivationId, { cookie: demo.cookies.author, origin: server.url });
     await writer.synced();
