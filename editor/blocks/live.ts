@@ -74,6 +74,8 @@ export interface LiveOptions {
 const EMPTY_PREVIEWS: BlockPreviews = {};
 /** Least time between two redraws of the blocks while results stream in (ms). */
 const NOTIFY_GAP_MS = 90;
+/** Least time between two reads of the check client's state while results stream in (ms). */
+const REBUILD_GAP_MS = 40;
 const now = () => (typeof performance !== 'undefined' ? performance.now() : Date.now());
 
 function defaultFieldWorker(): WorkerLike {
@@ -135,13 +137,14 @@ export class LiveChecks {
   private stepKeys = new Map<string, string>();
   private readonly changedSteps = new Set<string>();
   private notifyScheduled = false;
+  private rebuildTimer: ReturnType<typeof setTimeout> | null = null;
   private lastNotify = -Infinity;
   private destroyed = false;
 
   constructor(options: LiveOptions = {}) {
     this.createFieldWorker = options.createFieldWorker ?? defaultFieldWorker;
     this.debounceMs = options.debounceMs ?? 150;
-    this.checks = new CheckClient({ createWorker: options.createCheckWorker ?? defaultCheckWorker, onChange: () => this.rebuild() });
+    this.checks = new CheckClient({ createWorker: options.createCheckWorker ?? defaultCheckWorker, onChange: () => this.checksChanged() });
     // Both workers load the solver (a few hundred kB): start them now, while the page opens.
     this.checks.warm();
     this.ensureFieldWorker();
@@ -433,6 +436,7 @@ export class LiveChecks {
   destroy(): void {
     this.destroyed = true;
     if (this.timer) clearTimeout(this.timer);
+    if (this.rebuildTimer) clearTimeout(this.rebuildTimer);
     this.fieldWorker?.terminate();
     this.fieldWorker = null;
     this.checks.destroy();
@@ -447,7 +451,27 @@ export class LiveChecks {
 
   // ----- building the snapshot -----------------------------------------------------------------
 
+  /**
+   * The check client changed (a check started or a result came). While results stream in they are
+   * read together at most every REBUILD_GAP_MS (each read looks at every claim, two messages a
+   * claim, and the blocks are redrawn at most every NOTIFY_GAP_MS anyway); the last one at once.
+   */
+  private checksChanged(): void {
+    if (!this.checks.busy) {
+      this.rebuild();
+      return;
+    }
+    this.rebuildTimer ??= setTimeout(() => {
+      this.rebuildTimer = null;
+      this.rebuild();
+    }, REBUILD_GAP_MS);
+  }
+
   private rebuild(): void {
+    if (this.rebuildTimer) {
+      clearTimeout(this.rebuildTimer);
+      this.rebuildTimer = null;
+    }
     if (this.destroyed) return;
     const reading = this.reading;
     const flows = reading?.flows ?? [];
