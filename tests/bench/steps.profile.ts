@@ -7,7 +7,7 @@
 // `MARGINALIA_DIST_DIR=.next-profile npx tsx tests/bench/steps.profile.ts`.
 import { writeFileSync } from 'node:fs';
 import path from 'node:path';
-import type { Browser, CDPSession, Page } from 'playwright-core';
+import type { Browser, BrowserContext, CDPSession, Page } from 'playwright-core';
 import { demoSessions, launchBrowser, signedInContext, startServer } from '../helpers';
 import { BENCH_VIEWPORT, growDemoDerivation, waitForDocumentShown, waitForEveryVerdict } from './stepsDocument';
 
@@ -161,6 +161,56 @@ async function marks(page: Page): Promise<void> {
   }
 }
 
+interface LongFrame {
+  start: number;
+  duration: number;
+  styleAndLayout: number;
+  scripts: string[];
+}
+
+/** Keeps the page's frames over 50 ms (Chromium's long-animation-frame timing) from its start. */
+async function recordLongFrames(context: BrowserContext): Promise<void> {
+  await context.addInitScript(() => {
+    const frames: unknown[] = [];
+    (window as unknown as { __longFrames: unknown[] }).__longFrames = frames;
+    try {
+      new PerformanceObserver((list) => {
+        for (const entry of list.getEntries()) {
+          const frame = entry as PerformanceEntry & {
+            styleAndLayoutStart: number;
+            scripts: { invoker: string; invokerType: string; sourceFunctionName: string; sourceURL: string; sourceCharPosition: number; duration: number; forcedStyleAndLayoutDuration: number }[];
+          };
+          frames.push({
+            start: frame.startTime,
+            duration: frame.duration,
+            styleAndLayout: frame.styleAndLayoutStart ? frame.startTime + frame.duration - frame.styleAndLayoutStart : 0,
+            scripts: frame.scripts.map(
+              (script) =>
+                `${script.invokerType} ${script.invoker} ${script.sourceFunctionName}@${script.sourceURL.split('/').pop()}:${script.sourceCharPosition} ${script.duration.toFixed(0)} ms` +
+                (script.forcedStyleAndLayoutDuration > 1 ? `, forced layout ${script.forcedStyleAndLayoutDuration.toFixed(0)} ms` : ''),
+            ),
+          });
+        }
+      }).observe({ type: 'long-animation-frame', buffered: true });
+    } catch {
+      // no long-animation-frame timing in this browser
+    }
+  });
+}
+
+/** Prints the long frames from the check worker starting on: their scripts, and their style, layout and paint. */
+async function longFrames(page: Page): Promise<void> {
+  const { frames, ready } = await page.evaluate(() => ({
+    frames: (window as unknown as { __longFrames: LongFrame[] }).__longFrames,
+    ready: performance.getEntriesByName('marginalia:check-worker-ready')[0]?.startTime ?? 0,
+  }));
+  console.log('frames over 50 ms from the check worker starting (style, layout and paint; then the scripts):');
+  for (const frame of frames.filter((f) => f.start + f.duration > ready)) {
+    console.log(`  ${frame.start.toFixed(0).padStart(6)} ms  ${frame.duration.toFixed(0)} ms (style, layout, paint ${frame.styleAndLayout.toFixed(0)} ms)`);
+    for (const script of frame.scripts) console.log(`      ${script}`);
+  }
+}
+
 async function main(): Promise<void> {
   const server = await startServer({ demo: true });
   const browser = await launchBrowser();
@@ -176,6 +226,7 @@ async function main(): Promise<void> {
     await warm.close();
 
     const context = await signedIn();
+    await recordLongFrames(context);
     const page = await context.newPage();
     const cdp = await context.newCDPSession(page);
     const measure = <T,>(label: string, run: () => Promise<T>) => (TRACE && !PLAIN ? traced(browser, page, label, run) : profiled(cdp, label, run));
@@ -186,6 +237,7 @@ async function main(): Promise<void> {
       await page.waitForTimeout(1500);
     });
     await marks(page);
+    await longFrames(page);
     const sizes = await page.evaluate(() => {
       const text = document.querySelector('.derivation-text')!;
       const byKind = new Map<string, number>();
