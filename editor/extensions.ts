@@ -12,6 +12,7 @@ import { plotBlockExtensions } from './blocks/plotBlock';
 import { MathDisplay, MathInline } from './math';
 import type { PresenceUser } from './presence';
 import { StepIds } from './stepIds';
+import { TypedTextCaret } from './typedCaret';
 
 export const bodyField = 'body';
 
@@ -47,6 +48,7 @@ export function derivationExtensions({ doc, provider, user }: EditorBinding): An
       link: { openOnClick: false, autolink: true },
     }),
     StepIds,
+    TypedTextCaret,
     MathInline,
     MathDisplay,
     CheckedBlocks,
