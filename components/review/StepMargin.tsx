@@ -153,7 +153,7 @@ export function StepMargin({
     setHeights((before) => (JSON.stringify(before) === JSON.stringify(measured) ? before : measured));
   }, [main, stepIds]);
 
-  // The frame runs the latest measure (the steps to measure may change while it waits).
+  // The timer runs the latest measure (the steps to measure may change while it waits).
   const latestMeasure = useRef(measure);
   latestMeasure.current = measure;
   // Measured just after the next frame is drawn, when its layout is done and reading it costs

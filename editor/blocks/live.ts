@@ -11,7 +11,7 @@ import { mark } from '@/components/performanceMark';
 import { CheckClient, type CheckState } from '../worker/checkClient';
 import type { CheckItem, ClaimInfo, FieldAnswer, FieldRequest, FlowInfo, ImportAnswer, Reading, WorkerLike } from '../worker/protocol';
 import { readBlocks } from '../worker/reading';
-import { frameShareLeft, spendFrameShare } from './frameShare';
+import { workWithinShare } from './frameShare';
 
 export type { CheckState };
 
@@ -570,18 +570,17 @@ export class LiveChecks {
       this.notifyScheduled = false;
       // A page's first verdicts change every block at once: drawn a frame's share at a time
       // (frameShare.ts), so that no frame holds the page for long.
-      const start = now();
-      const budget = frameShareLeft(frameTime);
-      for (const stepId of this.changedSteps) {
-        this.changedSteps.delete(stepId);
-        for (const listener of [...(this.stepListeners.get(stepId) ?? [])]) listener();
-        if (this.changedSteps.size > 0 && now() - start > budget) {
-          spendFrameShare(frameTime, now() - start);
-          this.scheduleNotify(true);
-          return;
-        }
+      const redrawFirst = (): boolean => {
+        const first = this.changedSteps.values().next();
+        if (first.done) return false;
+        this.changedSteps.delete(first.value);
+        for (const listener of [...(this.stepListeners.get(first.value) ?? [])]) listener();
+        return this.changedSteps.size > 0;
+      };
+      if (workWithinShare(frameTime, redrawFirst)) {
+        this.scheduleNotify(true);
+        return;
       }
-      spendFrameShare(frameTime, now() - start);
       for (const listener of [...this.listeners]) listener();
     };
     // Results streaming in are shown at most every NOTIFY_GAP_MS, so a burst of checks redraws

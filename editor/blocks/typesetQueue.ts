@@ -5,18 +5,16 @@
 // frame while the page has other work (its first verdicts coming in), and is moved up when it
 // nears the screen. Nothing runs before KaTeX has arrived.
 import { katexNow, whenKatex } from '../katex';
-import { FRAME_SHARE_MS, frameShareLeft, spendFrameShare } from './frameShare';
+import { FRAME_SHARE_MS, workWithinShare } from './frameShare';
 
 /** What to draw into each element; the latest request for an element wins. Kept in request order. */
 const soon = new Map<HTMLElement, () => void>();
 const idle = new Map<HTMLElement, () => void>();
 /** Elements on or within a screen's height of the screen, as last reported. */
 const nearScreen = new WeakSet<HTMLElement>();
-const watched = new WeakSet<HTMLElement>();
 let frameScheduled = false;
 let idleScheduled = false;
 
-const now = () => performance.now();
 
 let watcher: IntersectionObserver | null | undefined;
 function nearnessWatcher(): IntersectionObserver | null {
@@ -58,26 +56,24 @@ function typesetPreview(target: HTMLElement, tex: string): void {
   }
 }
 
-function drawFrom(queue: Map<HTMLElement, () => void>, budget: number): number {
-  const start = now();
-  for (const [target, draw] of queue) {
-    queue.delete(target);
-    if (target.isConnected) draw();
-    if (now() - start > budget) break;
-  }
-  return now() - start;
+/** Draws the first element waiting in `queue`; says whether any are left. */
+function drawFirst(queue: Map<HTMLElement, () => void>): boolean {
+  const first = queue.entries().next();
+  if (first.done) return false;
+  const [target, draw] = first.value;
+  queue.delete(target);
+  if (target.isConnected) draw();
+  return queue.size > 0;
 }
 
 function runFrame(frameTime: number): void {
   frameScheduled = false;
-  spendFrameShare(frameTime, drawFrom(soon, frameShareLeft(frameTime)));
-  if (soon.size > 0) scheduleFrame();
+  if (workWithinShare(frameTime, () => drawFirst(soon))) scheduleFrame();
 }
 
 function runIdle(deadline: { timeRemaining: () => number }): void {
   idleScheduled = false;
-  drawFrom(idle, Math.min(FRAME_SHARE_MS, deadline.timeRemaining()));
-  if (idle.size > 0) scheduleIdle();
+  if (workWithinShare(undefined, () => drawFirst(idle), Math.min(FRAME_SHARE_MS, deadline.timeRemaining()))) scheduleIdle();
 }
 
 function scheduleFrame(): void {
@@ -99,10 +95,8 @@ function scheduleIdle(): void {
  * idle further away. A later request for it replaces this one. */
 export function drawSoon(target: HTMLElement, draw: () => void): void {
   const watching = nearnessWatcher();
-  if (watching && !watched.has(target)) {
-    watched.add(target);
-    watching.observe(target);
-  }
+  // Observing an element already observed does nothing (IntersectionObserver.observe).
+  watching?.observe(target);
   if (!watching || nearScreen.has(target)) {
     idle.delete(target);
     soon.set(target, draw);
