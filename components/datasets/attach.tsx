@@ -6,6 +6,7 @@
 import { useEffect, useId, useMemo, useState } from 'react';
 import type { ExponentAgreement, PowerLogFit } from '@/flow/fit';
 import type { ClaimResult } from '@/flow/types';
+import { ChoiceButton, type Choice } from '../ChoiceButton';
 import { PlotFrame, type PlotSeries } from '../plot';
 import { AgreementVerdict, Fitting, formatNumber } from './FitPanel';
 import { shownJob, useFitJobs } from './fitClient';
@@ -59,6 +60,10 @@ export function useDatasetSeries(derivationId: string, datasetId: string | null)
   return useJson<SeriesInput>(datasetId ? `/api/derivations/${derivationId}/datasets/${datasetId}/columns` : null);
 }
 
+function datasetLabel(d: DatasetChoice): string {
+  return `${d.name} (${d.rowCount} rows${d.hasErrorBars ? ', error bars' : ''})`;
+}
+
 /** "Dataset beside the flow": none, or one of the group's datasets. Read-only roles see the choice but cannot change it. */
 export function AttachDatasetPicker({
   derivationId,
@@ -92,12 +97,49 @@ export function AttachDatasetPicker({
         <option value="">none</option>
         {choices.map((d) => (
           <option key={d.id} value={d.id}>
-            {d.name} ({d.rowCount} rows{d.hasErrorBars ? ', error bars' : ''})
+            {datasetLabel(d)}
           </option>
         ))}
         {missing && <option value={datasetId}>a dataset that is no longer there</option>}
       </select>
       {datasets?.state === 'error' && <span role="alert" className="text-verdict-fails">{datasets.message}</span>}
+    </span>
+  );
+}
+
+/**
+ * The same choice as a button naming it (a select only while choosing), for blocks in the text: the
+ * group's datasets are fetched once a dataset is attached (to name it) or the user comes to choose.
+ */
+export function DatasetChoiceButton({
+  derivationId,
+  datasetId,
+  onChange,
+  disabled = false,
+  label = 'Dataset beside the flow',
+}: {
+  derivationId: string;
+  datasetId: string | null;
+  onChange: (datasetId: string | null) => void;
+  disabled?: boolean;
+  label?: string;
+}) {
+  const [wanted, setWanted] = useState(false);
+  const loaded = useJson<{ datasets: DatasetChoice[] }>(wanted || datasetId !== null ? `/api/derivations/${derivationId}/datasets` : null);
+  const options: Choice<string>[] = [{ value: '', label: 'none' }];
+  if (loaded?.state === 'ready') {
+    for (const d of loaded.value.datasets) options.push({ value: d.id, label: datasetLabel(d) });
+    if (datasetId !== null && !loaded.value.datasets.some((d) => d.id === datasetId)) options.push({ value: datasetId, label: 'a dataset that is no longer there' });
+  } else if (datasetId !== null) {
+    options.push({ value: datasetId, label: loaded?.state === 'error' ? 'a dataset (the list could not be read)' : 'a dataset (reading the list…)' });
+  }
+  return (
+    <span className="inline-flex flex-wrap items-center gap-2 text-sm" onPointerEnter={() => setWanted(true)} onFocus={() => setWanted(true)}>
+      <span className="text-ink-soft" aria-hidden="true">
+        {label}
+      </span>
+      <ChoiceButton label={label} value={datasetId ?? ''} options={options} onChange={(value) => onChange(value || null)} onOpen={() => setWanted(true)} disabled={disabled} />
+      {loaded?.state === 'error' && <span role="alert" className="text-verdict-fails">{loaded.message}</span>}
     </span>
   );
 }

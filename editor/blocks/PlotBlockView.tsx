@@ -6,7 +6,8 @@
 import type { Node as ProseMirrorNode } from '@tiptap/pm/model';
 import { NodeViewContent, NodeViewWrapper, type NodeViewProps } from '@tiptap/react';
 import { startTransition, useEffect, useMemo, useRef, useState, type RefObject } from 'react';
-import { AttachDatasetPicker, useDatasetOverlay } from '@/components/datasets/attach';
+import { ChoiceButton, ValueButton } from '@/components/ChoiceButton';
+import { DatasetChoiceButton, useDatasetOverlay } from '@/components/datasets/attach';
 import { PlotFrame } from '@/components/plot';
 import type { FlowSpec, TrajectoryResult, ValueInput } from '@/flow';
 import { BLOCK_FIELD, FLOW_BLOCK, FieldSyntaxError, fieldValue, readDocument, type DocNode, type FlowReading } from '@/flow/document';
@@ -141,12 +142,12 @@ function readStarts(node: ProseMirrorNode, couplings: readonly string[]): { capt
   return { caption, starts };
 }
 
-/** How far outside the screen a plot is drawn ahead of scrolling to it (px). */
+/** How far outside the screen a plot is followed and drawn ahead of scrolling to it (px). */
 const NEAR_SCREEN_MARGIN = '600px';
 
 /**
- * Whether the element is on screen or near it. A chart costs a few hundred milliseconds to draw:
- * off screen it is drawn when it comes near, not on every change of its flow.
+ * Whether the element is on screen or near it. A chart costs a few hundred milliseconds to draw and
+ * its trajectories a worker's time: off screen both wait until it comes near, not on every change of its flow.
  */
 function useNearScreen(ref: RefObject<HTMLElement | null>): boolean {
   const [near, setNear] = useState(() => typeof IntersectionObserver === 'undefined');
@@ -160,23 +161,15 @@ function useNearScreen(ref: RefObject<HTMLElement | null>): boolean {
   return near;
 }
 
+/** A setting of the plot: its name, then the choice as a button (a select only while choosing). */
 function Choice<T extends string>({ label, value, options, onChange, disabled }: { label: string; value: T; options: { value: T; label: string }[]; onChange: (value: T) => void; disabled: boolean }) {
   return (
-    <label className="inline-flex items-center gap-1">
-      <span className="text-ink-soft">{label}</span>
-      <select
-        className="rounded border border-rule bg-paper px-1 py-0.5 text-ink disabled:opacity-70"
-        value={value}
-        disabled={disabled}
-        onChange={(event) => onChange(event.target.value as T)}
-      >
-        {options.map((option) => (
-          <option key={option.value} value={option.value}>
-            {option.label}
-          </option>
-        ))}
-      </select>
-    </label>
+    <span className="inline-flex items-center gap-1">
+      <span className="text-ink-soft" aria-hidden="true">
+        {label}
+      </span>
+      <ChoiceButton label={label} value={value} options={options} onChange={onChange} disabled={disabled} />
+    </span>
   );
 }
 
@@ -199,8 +192,14 @@ export function PlotBlockView(props: NodeViewProps) {
   const [traced, setTraced] = useState<{ request: string; texts: string[]; numbers: number[]; results: (TrajectoryResult | null)[]; error: string | null } | null>(null);
   const [following, setFollowing] = useState(false);
 
+  // Off screen nothing is followed: a long derivation's plots would otherwise take the machine while
+  // its first checks run. A plot is traced when it comes near the screen, with the flow as it is then.
+  const output = useRef<HTMLDivElement>(null);
+  const near = useNearScreen(output);
+
   useEffect(() => {
-    if (!request || !spec) return;
+    // Back near the screen with nothing changed meanwhile: the curves drawn are the flow's.
+    if (!request || !spec || !near || traced?.request === request) return;
     let current = true;
     const timer = setTimeout(() => {
       setFollowing(true);
@@ -220,9 +219,9 @@ export function PlotBlockView(props: NodeViewProps) {
       current = false;
       clearTimeout(timer);
     };
-    // The request string holds every input of the trace.
+    // The request string holds every input of the trace; traced is read only to skip a trace already done.
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [request]);
+  }, [request, near]);
 
   const traces = useMemo(
     () => (traced && spec ? plotPicture(settings, spec.couplings, spec.convention, traced.texts, traced.results) : null),
@@ -232,8 +231,6 @@ export function PlotBlockView(props: NodeViewProps) {
   );
   const picture = useMemo(() => (traces && overlay.series.length ? withOverlay(traces, overlay.series) : traces), [traces, overlay.series]);
   // The chart shows the latest picture while near the screen; off screen it keeps the last one drawn.
-  const output = useRef<HTMLDivElement>(null);
-  const near = useNearScreen(output);
   const drawn = useRef(picture);
   if (near) drawn.current = picture;
   const shown = drawn.current;
@@ -253,6 +250,7 @@ export function PlotBlockView(props: NodeViewProps) {
   if (overlay.note) problems.push(overlay.note);
   const set = (attrs: Partial<Record<keyof PlotSettings | typeof PLOT_FLOW | typeof PLOT_DATASET, unknown>>) => updateAttributes(attrs);
   const couplingOptions = couplings.map((c) => ({ value: c, label: c }));
+  const spanLabel = spec?.convention === 'map' ? 'Steps' : 'RG time up to';
   const title = caption || `Trajectories of ${bound.label || 'the flow'}`;
   const chart = useMemo(
     () => (shown ? <PlotFrame title={title} x={shown.x} y={shown.y} series={shown.series} markers={shown.markers} notes={shown.notes} height={320} /> : null),
@@ -320,26 +318,28 @@ export function PlotBlockView(props: NodeViewProps) {
           onChange={(direction) => set({ direction })}
           disabled={!editable || spec?.convention === 'map'}
         />
-        <label className="inline-flex items-center gap-1">
-          <span className="text-ink-soft">{spec?.convention === 'map' ? 'Steps' : 'RG time up to'}</span>
-          <input
-            className="w-24 rounded border border-rule bg-paper px-1 py-0.5 font-mono text-ink"
+        <span className="inline-flex items-center gap-1">
+          <span className="text-ink-soft" aria-hidden="true">
+            {spanLabel}
+          </span>
+          <ValueButton
+            label={spanLabel}
+            text={settings.span === null ? '' : String(settings.span)}
+            empty="automatic"
             inputMode="decimal"
-            defaultValue={settings.span ?? ''}
-            placeholder="automatic"
             disabled={!editable}
-            aria-invalid={false}
-            onBlur={(event) => {
-              const text = event.target.value.trim();
+            onCommit={(typed) => {
+              const text = typed.trim();
               const value = Number(text);
               if (text === '') set({ span: null });
               else if (Number.isFinite(value) && value > 0) set({ span: value });
-              else event.target.value = String(settings.span ?? '');
+              else return `"${text}" is not a positive number`;
+              return null;
             }}
           />
-        </label>
+        </span>
         {derivationId && (
-          <AttachDatasetPicker derivationId={derivationId} datasetId={datasetId} onChange={(dataset) => set({ [PLOT_DATASET]: dataset })} disabled={!editable} />
+          <DatasetChoiceButton derivationId={derivationId} datasetId={datasetId} onChange={(dataset) => set({ [PLOT_DATASET]: dataset })} disabled={!editable} />
         )}
         {editable && (
           <button type="button" className="rounded border border-rule px-2 py-0.5 text-ink-soft hover:border-ink-faint hover:text-ink" onClick={() => deleteNode()}>

@@ -73,7 +73,8 @@ test('a reviewer opens a claim, sees the evidence, runs it again, remarks on the
   await evidence.getByRole('button', { name: 'Close' }).click();
 
   // Choosing the claim's step opens its card in the margin (the keyboard way: the chooser).
-  await reviewer.getByLabel('Review a step', { exact: true }).selectOption({ label: '3. Claim "gstar" (fixed point)' });
+  await reviewer.getByRole('button', { name: /^Review a step: / }).click();
+  await reviewer.getByRole('combobox', { name: 'Review a step' }).selectOption({ label: '3. Claim "gstar" (fixed point)' });
   const card = reviewer.getByRole('region', { name: 'Review of step 3' });
   await card.waitFor();
   expect(await card.textContent()).toContain('Not signed off.');

@@ -3,7 +3,8 @@
 // step's card), and the list of every remark below. It wraps the whiteboard without touching it:
 // steps are found in the editor's DOM by their data-step-id.
 import { useQuery, useQueryClient } from '@tanstack/react-query';
-import { useCallback, useEffect, useId, useMemo, useRef, useState, type ReactNode } from 'react';
+import { useCallback, useEffect, useMemo, useRef, useState, type ReactNode } from 'react';
+import { ChoiceButton } from '@/components/ChoiceButton';
 import { RemarkIndex } from '@/components/review/RemarkIndex';
 import { StepCard } from '@/components/review/StepCard';
 import { StepMargin, stepElement } from '@/components/review/StepMargin';
@@ -188,27 +189,18 @@ export function ReviewPane({
   );
 }
 
-/** A keyboard way to any step: choose it by its number and text. */
+/** A keyboard way to any step: choose it by its number and text (a select only while choosing, as a
+ * long derivation's margin would otherwise hold a select of every step for the browser's autofill to read). */
 function StepChooser({ steps, selected, onChoose }: { steps: ReviewWire['steps']; selected: string | null; onChoose: (stepId: string | null) => void }) {
-  const id = useId();
+  const options = useMemo(() => [{ value: '', label: 'Choose a step…' }, ...steps.map((step, i) => ({ value: step.stepId, label: `${i + 1}. ${step.excerpt.slice(0, 60)}` }))], [steps]);
   return (
     <div className="flex flex-col gap-0.5 text-xs text-ink-soft">
-      <label htmlFor={id} className="font-semibold tracking-wide">
+      <span className="font-semibold tracking-wide" aria-hidden="true">
         Review a step
-      </label>
-      <select
-        id={id}
-        value={selected ?? ''}
-        onChange={(event) => onChoose(event.target.value || null)}
-        className="w-full rounded border border-rule bg-white/70 px-1.5 py-1 text-sm text-ink focus:border-accent"
-      >
-        <option value="">Choose a step…</option>
-        {steps.map((step, i) => (
-          <option key={step.stepId} value={step.stepId}>
-            {i + 1}. {step.excerpt.slice(0, 60)}
-          </option>
-        ))}
-      </select>
+      </span>
+      <span className="text-sm">
+        <ChoiceButton label="Review a step" value={selected ?? ''} options={options} onChange={(value) => onChoose(value || null)} />
+      </span>
     </div>
   );
 }
