@@ -48,9 +48,9 @@ function useJson<T>(path: string | null): Loaded<T> | null {
   return loaded;
 }
 
-/** The datasets of the derivation's group. */
-export function useDerivationDatasets(derivationId: string): Loaded<DatasetChoice[]> | null {
-  const loaded = useJson<{ datasets: DatasetChoice[] }>(`/api/derivations/${derivationId}/datasets`);
+/** The datasets of the derivation's group (none asked for while not `wanted`). */
+export function useDerivationDatasets(derivationId: string, wanted = true): Loaded<DatasetChoice[]> | null {
+  const loaded = useJson<{ datasets: DatasetChoice[] }>(wanted ? `/api/derivations/${derivationId}/datasets` : null);
   if (!loaded || loaded.state !== 'ready') return loaded;
   return { state: 'ready', value: loaded.value.datasets };
 }
@@ -60,8 +60,20 @@ export function useDatasetSeries(derivationId: string, datasetId: string | null)
   return useJson<SeriesInput>(datasetId ? `/api/derivations/${derivationId}/datasets/${datasetId}/columns` : null);
 }
 
-function datasetLabel(d: DatasetChoice): string {
-  return `${d.name} (${d.rowCount} rows${d.hasErrorBars ? ', error bars' : ''})`;
+interface DatasetPickerProps {
+  derivationId: string;
+  datasetId: string | null;
+  onChange: (datasetId: string | null) => void;
+  disabled?: boolean;
+  label?: string;
+}
+
+/** None, each of the group's datasets, and the attached one if it is no longer there. */
+function datasetOptions(datasets: readonly DatasetChoice[], datasetId: string | null): Choice<string>[] {
+  const options: Choice<string>[] = [{ value: '', label: 'none' }];
+  for (const d of datasets) options.push({ value: d.id, label: `${d.name} (${d.rowCount} rows${d.hasErrorBars ? ', error bars' : ''})` });
+  if (datasetId !== null && !datasets.some((d) => d.id === datasetId)) options.push({ value: datasetId, label: 'a dataset that is no longer there' });
+  return options;
 }
 
 /** "Dataset beside the flow": none, or one of the group's datasets. Read-only roles see the choice but cannot change it. */
@@ -71,17 +83,11 @@ export function AttachDatasetPicker({
   onChange,
   disabled = false,
   label = 'Dataset beside the flow',
-}: {
-  derivationId: string;
-  datasetId: string | null;
-  onChange: (datasetId: string | null) => void;
-  disabled?: boolean;
-  label?: string;
-}) {
+}: DatasetPickerProps) {
   const id = useId();
   const datasets = useDerivationDatasets(derivationId);
-  const choices = datasets?.state === 'ready' ? datasets.value : [];
-  const missing = datasetId !== null && datasets?.state === 'ready' && !choices.some((d) => d.id === datasetId);
+  // Until the list is read, only "none" (the select is disabled meanwhile).
+  const options = datasets?.state === 'ready' ? datasetOptions(datasets.value, datasetId) : datasetOptions([], null);
   return (
     <span className="inline-flex flex-wrap items-center gap-2 text-sm">
       <label htmlFor={id} className="text-ink-soft">
@@ -94,13 +100,11 @@ export function AttachDatasetPicker({
         onChange={(e) => onChange(e.target.value || null)}
         className="rounded border border-rule bg-white/70 px-2 py-0.5"
       >
-        <option value="">none</option>
-        {choices.map((d) => (
-          <option key={d.id} value={d.id}>
-            {datasetLabel(d)}
+        {options.map((option) => (
+          <option key={option.value} value={option.value}>
+            {option.label}
           </option>
         ))}
-        {missing && <option value={datasetId}>a dataset that is no longer there</option>}
       </select>
       {datasets?.state === 'error' && <span role="alert" className="text-verdict-fails">{datasets.message}</span>}
     </span>
@@ -117,20 +121,11 @@ export function DatasetChoiceButton({
   onChange,
   disabled = false,
   label = 'Dataset beside the flow',
-}: {
-  derivationId: string;
-  datasetId: string | null;
-  onChange: (datasetId: string | null) => void;
-  disabled?: boolean;
-  label?: string;
-}) {
+}: DatasetPickerProps) {
   const [wanted, setWanted] = useState(false);
-  const loaded = useJson<{ datasets: DatasetChoice[] }>(wanted || datasetId !== null ? `/api/derivations/${derivationId}/datasets` : null);
-  const options: Choice<string>[] = [{ value: '', label: 'none' }];
-  if (loaded?.state === 'ready') {
-    for (const d of loaded.value.datasets) options.push({ value: d.id, label: datasetLabel(d) });
-    if (datasetId !== null && !loaded.value.datasets.some((d) => d.id === datasetId)) options.push({ value: datasetId, label: 'a dataset that is no longer there' });
-  } else if (datasetId !== null) {
+  const loaded = useDerivationDatasets(derivationId, wanted || datasetId !== null);
+  const options = loaded?.state === 'ready' ? datasetOptions(loaded.value, datasetId) : datasetOptions([], null);
+  if (loaded?.state !== 'ready' && datasetId !== null) {
     options.push({ value: datasetId, label: loaded?.state === 'error' ? 'a dataset (the list could not be read)' : 'a dataset (reading the list…)' });
   }
   return (
