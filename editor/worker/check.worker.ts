@@ -1,9 +1,10 @@
 // The check worker: runs claims with flow/, one at a time, posting each result as it comes. A new
 // list of items replaces what is queued (an edit supersedes older checks); between two claims it
 // yields so that such a list can arrive. A claim that runs long is stopped by the page ending
-// this worker and starting a fresh one.
+// this worker and starting a fresh one. While many claims wait it rests between them
+// (restAfterClaim): at most LONGEST_REST_MS, so an edit arriving meanwhile waits little.
 import { yieldToEventLoop } from '@/flow/runner';
-import { runItem } from './checkLogic';
+import { restAfterClaim, runItem } from './checkLogic';
 import type { CheckAnswer, CheckItem, CheckRequest } from './protocol';
 
 interface Scope {
@@ -15,6 +16,10 @@ const scope = self as unknown as Scope;
 let queue: CheckItem[] = [];
 let pumping = false;
 
+function rest(ms: number): Promise<void> {
+  return ms > 0 ? new Promise((resolve) => setTimeout(resolve, ms)) : Promise.resolve();
+}
+
 async function pump(): Promise<void> {
   if (pumping) return;
   pumping = true;
@@ -24,7 +29,11 @@ async function pump(): Promise<void> {
       const item = queue.shift();
       if (!item) break;
       scope.postMessage({ type: 'started', ticket: item.ticket });
-      scope.postMessage({ type: 'result', ticket: item.ticket, result: runItem(item) });
+      const started = performance.now();
+      const result = runItem(item);
+      const tookMs = performance.now() - started;
+      scope.postMessage({ type: 'result', ticket: item.ticket, result });
+      await rest(restAfterClaim(tookMs, queue.length));
     }
   } finally {
     pumping = false;
