@@ -15,7 +15,9 @@ const TASK_MS = Number(process.env.PROFILE_TASK_MS ?? 40);
 const OUT = process.env.PROFILE_DIR ?? '/tmp';
 const KEYS = Number(process.env.PROFILE_KEYSTROKES ?? 4);
 /** PROFILE_TRACE=1: a performance trace (style, layout, paint in each long task) instead of the CPU profile. */
-const TRACE = process.env.PROFILE_TRACE === '1';
+const TRACE = process.env.PROFILE_TRACE === '1' || process.env.PROFILE_TRACE === 'light';
+/** PROFILE_TRACE=light: only the tasks and their parts (no stacks, no invalidations), which cost the page far less. */
+const LIGHT = process.env.PROFILE_TRACE === 'light';
 /** PROFILE_PLAIN=1: neither, only the page's marks and what it fetched (the timeline as the benchmark meets it). */
 const PLAIN = process.env.PROFILE_PLAIN === '1';
 
@@ -90,38 +92,76 @@ interface TraceEvent {
   ph: string;
   ts: number;
   dur?: number;
+  /** CPU time of the thread within the event (µs); beside `dur`, it shows how long the thread waited for a core. */
+  tdur?: number;
   tid: number;
   pid: number;
   args?: { data?: { stackTrace?: { functionName: string; url: string; lineNumber: number }[] }; beginData?: { stackTrace?: { functionName: string; url: string; lineNumber: number }[] } };
 }
 
-/** The browser's own work (style, layout, paint) inside each main-thread task over TASK_MS. */
+const TASK_NAMES = ['RunTask', 'ThreadControllerImpl::RunTask', 'ThreadPool_RunTask', 'TaskGraphRunner::RunTask'];
+const ms = (us: number) => (us / 1000).toFixed(0);
+
+/** Each thread's CPU time between two trace times, from its top-level tasks: what shares the cores with the page. */
+function cpuByThread(events: TraceEvent[], from: number, to: number): [string, number][] {
+  const threadNames = new Map<string, string>();
+  const processNames = new Map<number, string>();
+  for (const e of events as (TraceEvent & { args?: { name?: string } })[]) {
+    if (e.name === 'thread_name' && e.args?.name) threadNames.set(`${e.pid}:${e.tid}`, e.args.name);
+    if (e.name === 'process_name' && e.args?.name) processNames.set(e.pid, e.args.name);
+  }
+  const cpu = new Map<string, number>();
+  for (const e of events) {
+    if (e.ph !== 'X' || !e.dur || !TASK_NAMES.includes(e.name)) continue;
+    const inside = Math.min(e.ts + e.dur, to) - Math.max(e.ts, from);
+    if (inside <= 0) continue;
+    const key = `${processNames.get(e.pid) ?? e.pid} / ${threadNames.get(`${e.pid}:${e.tid}`) ?? e.tid}`;
+    cpu.set(key, (cpu.get(key) ?? 0) + ((e.tdur ?? e.dur) * inside) / e.dur);
+  }
+  return [...cpu].sort((a, b) => b[1] - a[1]);
+}
+
+/**
+ * The browser's own work (style, layout, paint) inside each main-thread task over TASK_MS, with its
+ * CPU time beside its wall time; and each thread's CPU time while the first checks run.
+ */
 function summariseTrace(events: TraceEvent[], label: string): void {
   const main = events.find((e) => e.name === 'thread_name' && (e as unknown as { args: { name: string } }).args.name === 'CrRendererMain');
   if (!main) return;
   const onMain = events.filter((e) => e.tid === main.tid && e.pid === main.pid && e.ph === 'X' && typeof e.dur === 'number');
-  const tasks = onMain.filter((e) => e.name === 'RunTask' && e.dur! / 1000 >= TASK_MS);
+  const tasks = onMain.filter((e) => TASK_NAMES.includes(e.name) && e.dur! / 1000 >= TASK_MS);
   const start = Math.min(...onMain.map((e) => e.ts));
-  console.log(`\n== ${label}: browser work inside tasks over ${TASK_MS} ms`);
+  // The page's marks (blink.user_timing): tasks after the check worker came ready are the window's.
+  const ready = events.find((e) => e.name === 'marginalia:check-worker-ready');
+  const settled = events.find((e) => e.name === 'marginalia:verdicts-settled');
+  console.log(`\n== ${label}: browser work inside tasks over ${TASK_MS} ms (trace clock)`);
+  if (ready && settled) {
+    console.log(`  the first checks run from ${ms(ready.ts - start)} to ${ms(settled.ts - start)} ms; CPU time of each thread then:`);
+    for (const [thread, cpu] of cpuByThread(events, ready.ts, settled.ts).slice(0, 8)) console.log(`    ${ms(cpu).padStart(5)} ms  ${thread}`);
+  }
   const kinds = ['UpdateLayoutTree', 'Layout', 'PrePaint', 'Paint', 'Layerize', 'Commit', 'HitTest', 'ParseHTML', 'EvaluateScript', 'FunctionCall', 'TimerFire', 'FireAnimationFrame', 'EventDispatch', 'v8.compile', 'MajorGC', 'MinorGC', 'IntersectionObserverController::computeIntersections', 'ResizeObserverController::DeliverObservations'];
   for (const task of tasks) {
     const inside = onMain.filter((e) => e !== task && e.ts >= task.ts && e.ts + e.dur! <= task.ts + task.dur!);
     const sums = new Map<string, number>();
     for (const e of inside) if (kinds.includes(e.name)) sums.set(e.name, (sums.get(e.name) ?? 0) + e.dur! / 1000);
     const parts = [...sums].sort((a, b) => b[1] - a[1]).map(([n, v]) => `${n} ${v.toFixed(0)}`).join(', ');
-    console.log(`  task at ${((task.ts - start) / 1000).toFixed(0)} ms, ${(task.dur! / 1000).toFixed(0)} ms: ${parts}`);
+    const inWindow = ready && settled && task.ts + task.dur! > ready.ts && task.ts < settled.ts ? ' (while the first checks run)' : '';
+    console.log(`  task at ${ms(task.ts - start)} ms, ${ms(task.dur!)} ms, CPU ${task.tdur === undefined ? '?' : ms(task.tdur)} ms${inWindow}: ${parts}`);
     for (const e of inside) {
       if ((e.name === 'Layout' || e.name === 'UpdateLayoutTree') && e.dur! / 1000 >= 5) {
         const stack = e.args?.beginData?.stackTrace ?? e.args?.data?.stackTrace;
         const where = stack?.slice(0, 4).map((f) => `${f.functionName || '(anonymous)'} ${f.url.split('/').pop()}:${f.lineNumber}`).join(' < ');
-        console.log(`      ${e.name} ${(e.dur! / 1000).toFixed(0)} ms${where ? ` forced by ${where}` : ''}`);
+        console.log(`      ${e.name} ${ms(e.dur!)} ms, CPU ${e.tdur === undefined ? '?' : ms(e.tdur)} ms${where ? ` forced by ${where}` : ''}`);
       }
     }
   }
 }
 
 async function traced<T>(browser: Browser, page: Page, label: string, run: () => Promise<T>): Promise<T> {
-  await browser.startTracing(page, { categories: ['toplevel', 'disabled-by-default-toplevel.flow', 'devtools.timeline', 'disabled-by-default-devtools.timeline', 'disabled-by-default-devtools.timeline.stack', 'disabled-by-default-devtools.timeline.invalidationTracking', 'v8'] });
+  const categories = LIGHT
+    ? ['toplevel', 'devtools.timeline', 'v8', 'blink.user_timing']
+    : ['toplevel', 'disabled-by-default-toplevel.flow', 'devtools.timeline', 'disabled-by-default-devtools.timeline', 'disabled-by-default-devtools.timeline.stack', 'disabled-by-default-devtools.timeline.invalidationTracking', 'v8', 'blink.user_timing'];
+  await browser.startTracing(page, { categories });
   const value = await run();
   const buffer = await browser.stopTracing();
   const file = path.join(OUT, `marginalia-${label.replace(/\W+/g, '-')}.trace.json`);
