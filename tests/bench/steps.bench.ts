@@ -10,7 +10,7 @@
 // Reports medians (and the spread); asserts nothing about time.
 import type { Browser, BrowserContext, Page } from 'playwright-core';
 import { demoSessions, launchBrowser, signedInContext, startServer, type DemoSessions, type StartedServer } from '../helpers';
-import { BENCH_VIEWPORT, growDemoDerivation, TARGET_CLAIMS, TARGET_STEPS, waitForDocumentShown, waitForEveryVerdict } from './stepsDocument';
+import { BENCH_VIEWPORT, FINAL_VERDICTS, growDemoDerivation, TARGET_CLAIMS, TARGET_STEPS, waitForDocumentShown, waitForEveryVerdict } from './stepsDocument';
 
 const LOADS = Number(process.env.BENCH_LOADS ?? 7);
 const KEYSTROKES = Number(process.env.BENCH_KEYSTROKES ?? 15);
@@ -92,7 +92,7 @@ async function dependentVerdictsChecked(page: Page, ids: string[]): Promise<numb
   return (await page.evaluate(`new Promise((resolve, reject) => {
     const ids = ${JSON.stringify(ids)};
     const blocks = ids.map((id) => document.querySelector('[data-step-id="' + id + '"]'));
-    const final = ['holds', 'fails', 'inconclusive', 'invalid'];
+    const final = ${JSON.stringify(FINAL_VERDICTS)};
     const limit = setTimeout(() => reject(new Error('the dependent verdicts did not all come within 30 s')), 30000);
     const check = () => {
       let last = 0;
@@ -118,8 +118,8 @@ async function keystrokes(browser: Browser, server: StartedServer, demo: DemoSes
   const page = await context.newPage();
   await page.goto(`${server.url}/derivations/${demo.derivationId}`);
   await page.waitForFunction(
-    (ids) => ids.every((id) => ['holds', 'fails', 'inconclusive', 'invalid'].includes((document.querySelector(`[data-step-id="${id}"]`) as HTMLElement | null)?.dataset.verdict ?? '')),
-    grown.dependentClaims,
+    ({ ids, final }) => ids.every((id) => final.includes((document.querySelector(`[data-step-id="${id}"]`) as HTMLElement | null)?.dataset.verdict ?? '')),
+    { ids: grown.dependentClaims, final: FINAL_VERDICTS },
     { timeout: 120_000, polling: 'raf' },
   );
   // Each dependent claim's verdict changes are recorded with their time.

@@ -96,7 +96,7 @@ interface TraceEvent {
   tdur?: number;
   tid: number;
   pid: number;
-  args?: { data?: { stackTrace?: { functionName: string; url: string; lineNumber: number }[] }; beginData?: { stackTrace?: { functionName: string; url: string; lineNumber: number }[] } };
+  args?: { name?: string; data?: { stackTrace?: { functionName: string; url: string; lineNumber: number }[] }; beginData?: { stackTrace?: { functionName: string; url: string; lineNumber: number }[] } };
 }
 
 const TASK_NAMES = ['RunTask', 'ThreadControllerImpl::RunTask', 'ThreadPool_RunTask', 'TaskGraphRunner::RunTask'];
@@ -106,7 +106,7 @@ const ms = (us: number) => (us / 1000).toFixed(0);
 function cpuByThread(events: TraceEvent[], from: number, to: number): [string, number][] {
   const threadNames = new Map<string, string>();
   const processNames = new Map<number, string>();
-  for (const e of events as (TraceEvent & { args?: { name?: string } })[]) {
+  for (const e of events) {
     if (e.name === 'thread_name' && e.args?.name) threadNames.set(`${e.pid}:${e.tid}`, e.args.name);
     if (e.name === 'process_name' && e.args?.name) processNames.set(e.pid, e.args.name);
   }
@@ -126,7 +126,7 @@ function cpuByThread(events: TraceEvent[], from: number, to: number): [string, n
  * CPU time beside its wall time; and each thread's CPU time while the first checks run.
  */
 function summariseTrace(events: TraceEvent[], label: string): void {
-  const main = events.find((e) => e.name === 'thread_name' && (e as unknown as { args: { name: string } }).args.name === 'CrRendererMain');
+  const main = events.find((e) => e.name === 'thread_name' && e.args?.name === 'CrRendererMain');
   if (!main) return;
   const onMain = events.filter((e) => e.tid === main.tid && e.pid === main.pid && e.ph === 'X' && typeof e.dur === 'number');
   const tasks = onMain.filter((e) => TASK_NAMES.includes(e.name) && e.dur! / 1000 >= TASK_MS);

@@ -18,6 +18,8 @@ export const BENCH_VIEWPORT = { width: 1280, height: 900 };
 
 export const TARGET_STEPS = 200;
 export const TARGET_CLAIMS = 40;
+/** The verdicts a checked claim block shows (`data-verdict`); the others mean not checked yet. */
+export const FINAL_VERDICTS = ['holds', 'fails', 'inconclusive', 'invalid'];
 
 export interface GrownDocument {
   blocks: DocNode[];
@@ -199,7 +201,7 @@ export async function waitForEveryVerdict(page: Page): Promise<number> {
   // A string, not a function: the test runner's compiler would name the inner functions with a
   // helper the page does not have.
   return (await page.evaluate(`new Promise((resolve, reject) => {
-    const final = ['holds', 'fails', 'inconclusive', 'invalid'];
+    const final = ${JSON.stringify(FINAL_VERDICTS)};
     const blocks = document.getElementsByClassName('claim-block');
     let finished = false;
     const check = () => {
